@@ -1,0 +1,1 @@
+//! Drag force of a conducting fin between magnet rows (owned by the physics work; see DEVELOPERS.md).
