@@ -1,0 +1,448 @@
+//! The scenario: YAML shapes (`raw`), validation (`validate`), the validated model in SI (this
+//! module) and generated load cases (`cases`). Only the validated model reaches physics.
+
+pub mod cases;
+pub mod raw;
+pub mod validate;
+
+use crate::materials::Material;
+use serde::Serialize;
+use std::path::{Path, PathBuf};
+
+pub use validate::{load, parse_str};
+
+/// Which side carries the fins.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Arrangement {
+    /// Fins on the vehicle, magnet sections along the track (coaster brake runs).
+    FinsOnVehicle,
+    /// Magnet units on the vehicle, fins along the track (many towers).
+    MagnetsOnVehicle,
+}
+
+/// Where an element sits: on the vehicle (offset behind its front) or fixed along the track.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Mount {
+    /// Vehicle front to the element's leading edge, m.
+    Vehicle {
+        /// m
+        offset_m: f64,
+    },
+    /// Track position of the element's upstream end, m.
+    Track {
+        /// m
+        start_m: f64,
+    },
+}
+
+/// The vehicle.
+#[derive(Debug, Clone, Serialize)]
+pub struct Vehicle {
+    /// Nominal mass, kg.
+    pub mass_kg: f64,
+    /// Front to rear, m.
+    pub length_m: f64,
+}
+
+/// A conducting fin.
+#[derive(Debug, Clone, Serialize)]
+pub struct Fin {
+    /// Unique name (copies of a repeat get `-1`, `-2`, ...).
+    pub name: String,
+    /// Where it sits.
+    pub mount: Mount,
+    /// Along the track, m.
+    pub length_m: f64,
+    /// Across the pole faces, m.
+    pub height_m: f64,
+    /// Across the gap, m.
+    pub thickness_m: f64,
+    /// Its conductor.
+    pub material: Material,
+}
+
+/// Magnet design of a section, for the layer model.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MagnetDesign {
+    /// Centre of one pole to the next, m.
+    pub pole_pitch_m: f64,
+    /// Each row, in the gap direction, m.
+    pub magnet_thickness_m: f64,
+    /// Magnet width / pole pitch.
+    pub magnet_fill: f64,
+    /// Remanence at 20 °C, T.
+    pub remanence_t: f64,
+    /// Magnet face to fin face, each side, m.
+    pub clearance_m: f64,
+    /// Magnet extent across the fin, m.
+    pub pole_height_m: f64,
+}
+
+/// A measured force–speed table.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MeasuredForce {
+    /// (speed m/s, force per metre of overlap N/m).
+    pub points: Vec<(f64, f64)>,
+    /// Fin temperature during the measurement, °C.
+    pub fin_temp_c: f64,
+    /// Magnet temperature during the measurement, °C.
+    pub magnet_temp_c: f64,
+}
+
+/// How a section's force is obtained.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ForceSource {
+    /// From the layer model.
+    Model(MagnetDesign),
+    /// From a measured table.
+    Measured(MeasuredForce),
+}
+
+/// Magnet grade suffix, for the maximum working temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+pub enum MagnetGrade {
+    /// N: 80 °C.
+    N,
+    /// M: 100 °C.
+    M,
+    /// H: 120 °C.
+    H,
+    /// SH: 150 °C.
+    SH,
+    /// UH: 180 °C.
+    UH,
+    /// EH: 200 °C.
+    EH,
+}
+
+impl MagnetGrade {
+    /// Maximum working temperature, °C (common practice: sintered NdFeB grade tables).
+    pub fn max_temperature_c(self) -> f64 {
+        match self {
+            MagnetGrade::N => 80.0,
+            MagnetGrade::M => 100.0,
+            MagnetGrade::H => 120.0,
+            MagnetGrade::SH => 150.0,
+            MagnetGrade::UH => 180.0,
+            MagnetGrade::EH => 200.0,
+        }
+    }
+
+    /// Parses the suffix letters (`N`, `SH`, or a full name such as `N42SH`).
+    pub fn parse(text: &str) -> Option<Self> {
+        let t = text.trim().to_ascii_uppercase();
+        let suffix: String = t.trim_start_matches('N').trim_start_matches(|c: char| c.is_ascii_digit()).to_string();
+        match suffix.as_str() {
+            "" => Some(MagnetGrade::N),
+            "M" => Some(MagnetGrade::M),
+            "H" => Some(MagnetGrade::H),
+            "SH" => Some(MagnetGrade::SH),
+            "UH" => Some(MagnetGrade::UH),
+            "EH" => Some(MagnetGrade::EH),
+            _ => None,
+        }
+    }
+}
+
+/// A magnet section along the track, or a magnet unit on the vehicle.
+#[derive(Debug, Clone, Serialize)]
+pub struct Section {
+    /// Unique name (copies of a repeat get `-1`, `-2`, ...).
+    pub name: String,
+    /// Where it sits.
+    pub mount: Mount,
+    /// Along the track, m.
+    pub length_m: f64,
+    /// The force law.
+    pub force: ForceSource,
+    /// Reversible temperature coefficient of remanence, 1/K.
+    pub remanence_temp_coeff_per_k: f64,
+    /// Grade, when given.
+    pub grade: Option<MagnetGrade>,
+}
+
+impl Section {
+    /// The magnet design, when the section uses the model.
+    pub fn design(&self) -> Option<&MagnetDesign> {
+        match &self.force {
+            ForceSource::Model(d) => Some(d),
+            ForceSource::Measured(_) => None,
+        }
+    }
+}
+
+/// Gravity along the track.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Gravity {
+    /// Constant dz/ds (−1 is a vertical fall).
+    Grade {
+        /// dz/ds.
+        slope: f64,
+    },
+    /// Piecewise-linear elevation (position m, elevation m), strictly increasing positions.
+    Profile {
+        /// (s m, z m).
+        points: Vec<(f64, f64)>,
+    },
+}
+
+/// The track.
+#[derive(Debug, Clone, Serialize)]
+pub struct Track {
+    /// Gravity along the track.
+    pub gravity: Gravity,
+    /// kg/m³.
+    pub air_density_kg_m3: f64,
+}
+
+/// Resistance to motion.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
+pub struct Resistance {
+    /// Rolling coefficient μ.
+    pub rolling_coeff: f64,
+    /// Cd·A, m².
+    pub drag_area_m2: f64,
+    /// Constant friction, N.
+    pub friction_n: f64,
+}
+
+/// Where a case came from.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CaseOrigin {
+    /// Written in the scenario (or the implied nominal case).
+    Listed,
+    /// One section out.
+    SectionOut,
+    /// A corner of the factorial.
+    Corner,
+    /// A backwards entry.
+    Rollback,
+}
+
+/// One load or failure case, fully resolved.
+#[derive(Debug, Clone, Serialize)]
+pub struct Case {
+    /// Unique name.
+    pub name: String,
+    /// How it came about.
+    pub origin: CaseOrigin,
+    /// kg.
+    pub mass_kg: f64,
+    /// Track position of the vehicle front at t = 0, m.
+    pub start_position_m: f64,
+    /// m/s along the track.
+    pub start_speed_m_s: f64,
+    /// Fin temperature before the pass, °C.
+    pub fin_temp_c: f64,
+    /// Magnet temperature, °C.
+    pub magnet_temp_c: f64,
+    /// Indices into `Scenario::sections` that are out of service.
+    pub disabled: Vec<usize>,
+    /// Resistance.
+    pub resistance: Resistance,
+}
+
+/// Integrator settings.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Solver {
+    /// Relative tolerance (default 1e-10).
+    pub rtol: f64,
+    /// Absolute tolerance (default 1e-10).
+    pub atol: f64,
+}
+
+/// Rider axis names.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Axis {
+    /// Fore–aft.
+    X,
+    /// Lateral.
+    Y,
+    /// Along the spine.
+    Z,
+}
+
+impl Axis {
+    /// Lower-case name.
+    pub fn name(self) -> &'static str {
+        match self {
+            Axis::X => "x",
+            Axis::Y => "y",
+            Axis::Z => "z",
+        }
+    }
+}
+
+/// Low-pass filter for limit evaluation.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct FilterSettings {
+    /// Corner, Hz (default 5).
+    pub corner_hz: f64,
+    /// Poles (default 4).
+    pub order: usize,
+    /// Resampling rate, Hz (default 1000).
+    pub sample_rate_hz: f64,
+}
+
+/// Rider orientation.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Rider {
+    /// The rider axis the track direction is.
+    pub track_axis: Axis,
+    /// `None` when filtering is switched off.
+    pub filter: Option<FilterSettings>,
+}
+
+/// Peak limits of one axis, g.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
+pub struct PeakLimit {
+    /// Largest positive felt acceleration, g.
+    pub max_g: Option<f64>,
+    /// Most negative felt acceleration, g.
+    pub min_g: Option<f64>,
+}
+
+/// Envelope curves of one axis: (duration s, allowed g) points.
+#[derive(Debug, Clone, PartialEq, Serialize, Default)]
+pub struct EnvelopeLimit {
+    /// Positive side.
+    pub positive: Option<Vec<(f64, f64)>>,
+    /// Negative side, as magnitudes.
+    pub negative: Option<Vec<(f64, f64)>>,
+}
+
+/// Acceptance limits; every key optional.
+#[derive(Debug, Clone, PartialEq, Serialize, Default)]
+pub struct Limits {
+    /// Where the values come from.
+    pub source: Option<String>,
+    /// Peak felt acceleration per axis (x, y, z).
+    pub peak: [PeakLimit; 3],
+    /// Envelopes per axis (x, y, z).
+    pub envelope: [EnvelopeLimit; 3],
+    /// Largest onset, g/s.
+    pub onset_g_s: Option<f64>,
+    /// Lowest exit speed, m/s.
+    pub exit_speed_min_m_s: Option<f64>,
+    /// Highest exit speed, m/s.
+    pub exit_speed_max_m_s: Option<f64>,
+    /// Longest time in zone, s.
+    pub max_duration_s: Option<f64>,
+    /// A stall inside the zone is acceptable.
+    pub allow_stall: bool,
+    /// A reversal is acceptable.
+    pub allow_rollback: bool,
+    /// Highest fin temperature, °C.
+    pub max_fin_temperature_c: Option<f64>,
+    /// Highest magnet temperature, °C.
+    pub max_magnet_temperature_c: Option<f64>,
+}
+
+/// Number of dispatches to simulate.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Cycles {
+    /// Exactly this many.
+    Count(u32),
+    /// Until the peak changes by less than 0.1 K per cycle, at most this many.
+    UntilSteady {
+        /// Cap.
+        max_cycles: u32,
+    },
+}
+
+/// Repeated dispatches.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Duty {
+    /// s.
+    pub interval_s: f64,
+    /// How many.
+    pub cycles: Cycles,
+    /// °C.
+    pub ambient_c: f64,
+    /// W/(m²·K), on both faces.
+    pub film_coefficient_w_m2_k: f64,
+}
+
+/// The layout search input.
+#[derive(Debug, Clone, Serialize)]
+pub struct PlanSpec {
+    /// m.
+    pub zone_start_m: f64,
+    /// m.
+    pub max_length_m: f64,
+    /// Module length, m.
+    pub module_length_m: f64,
+    /// Module magnets (clearance is replaced by each setting).
+    pub module: MagnetDesign,
+    /// Module remanence coefficient, 1/K.
+    pub module_remanence_temp_coeff_per_k: f64,
+    /// Module grade.
+    pub module_grade: Option<MagnetGrade>,
+    /// Clearance settings, m, ascending.
+    pub clearances_m: Vec<f64>,
+    /// m.
+    pub min_spacing_m: f64,
+    /// Slot pitch, m.
+    pub slot_pitch_m: f64,
+}
+
+/// The validated scenario, in SI.
+#[derive(Debug, Clone, Serialize)]
+pub struct Scenario {
+    /// Name.
+    pub name: String,
+    /// Free text.
+    pub description: Option<String>,
+    /// The file it was read from.
+    #[serde(skip)]
+    pub path: Option<PathBuf>,
+    /// Which side carries the fins.
+    pub arrangement: Arrangement,
+    /// Vehicle.
+    pub vehicle: Vehicle,
+    /// Fins (on the vehicle or the track).
+    pub fins: Vec<Fin>,
+    /// Magnet sections (on the track) or units (on the vehicle).
+    pub sections: Vec<Section>,
+    /// Track.
+    pub track: Track,
+    /// All cases, listed and generated.
+    pub cases: Vec<Case>,
+    /// Rear of the vehicle past this clears the zone, m.
+    pub zone_end_m: f64,
+    /// Front of the vehicle upstream of this, moving backwards, has left the zone, m.
+    pub zone_start_m: f64,
+    /// m/s.
+    pub stall_speed_m_s: f64,
+    /// s.
+    pub time_limit_s: f64,
+    /// Integrator.
+    pub solver: Solver,
+    /// Rider orientation.
+    pub rider: Rider,
+    /// Limits.
+    pub limits: Limits,
+    /// Duty cycle.
+    pub duty: Option<Duty>,
+    /// Layout search.
+    pub plan: Option<PlanSpec>,
+}
+
+impl Scenario {
+    /// The file name for messages.
+    pub fn file_label(&self) -> String {
+        self.path.as_deref().map(Path::display).map(|d| d.to_string()).unwrap_or_else(|| "<input>".into())
+    }
+
+    /// A case by name.
+    pub fn case(&self, name: &str) -> Option<&Case> {
+        self.cases.iter().find(|c| c.name == name)
+    }
+}
