@@ -14,5 +14,13 @@ pub mod materials;
 pub mod scenario;
 /// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
 pub mod physics;
+/// Force–speed curves of each section × fin pair.
+pub mod curve;
+/// Output: tables, CSV, JSON, plots and the HTML report.
+pub mod report;
+/// Command implementations: options → library calls → output.
+pub mod cli;
+/// The vehicle's motion through the zone: gravity, resistance, brake pairs, events.
+pub mod dynamics;
 /// The top-level error type and the exit codes.
 pub mod error;

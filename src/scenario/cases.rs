@@ -101,6 +101,7 @@ mod tests {
             force: ForceSource::Measured(MeasuredForce { points: vec![(0.0, 0.0), (1.0, 1.0)], fin_temp_c: 20.0, magnet_temp_c: 20.0 }),
             remanence_temp_coeff_per_k: 0.0,
             grade: None,
+            lane: "main".into(),
         }
     }
 

@@ -61,6 +61,8 @@ pub struct Fin {
     pub thickness_m: f64,
     /// Its conductor.
     pub material: Material,
+    /// Lateral lane; a fin meets only the magnets of its lane.
+    pub lane: String,
 }
 
 /// Magnet design of a section, for the layer model.
@@ -162,6 +164,8 @@ pub struct Section {
     pub remanence_temp_coeff_per_k: f64,
     /// Grade, when given.
     pub grade: Option<MagnetGrade>,
+    /// Lateral lane; magnets act only on the fins of their lane.
+    pub lane: String,
 }
 
 impl Section {

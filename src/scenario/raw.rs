@@ -151,6 +151,8 @@ pub struct RawFin {
     pub thickness: Q,
     /// A built-in or custom material name.
     pub material: Spanned<String>,
+    /// Lateral lane: fins and magnets interact only on the same lane (default `main`).
+    pub lane: Option<String>,
     /// Optional copies.
     pub repeat: Option<RawRepeat>,
 }
@@ -197,6 +199,8 @@ pub struct RawSection {
     pub grade: Option<Spanned<String>>,
     /// Measured table replacing the model.
     pub force_curve: Option<RawForceCurve>,
+    /// Lateral lane: fins and magnets interact only on the same lane (default `main`).
+    pub lane: Option<String>,
     /// Optional copies.
     pub repeat: Option<RawRepeat>,
 }

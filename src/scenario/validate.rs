@@ -436,7 +436,7 @@ impl Validator {
             self.check_name(&f.name, &format!("{p}.name"));
             if let (Some(mount), Some(length_m), Some(height_m), Some(thickness_m), Some(material)) = (mount, length_m, height_m, thickness_m, material) {
                 for (suffix, shift) in copies {
-                    out.push(Fin { name: format!("{}{suffix}", f.name.value), mount: shifted(mount, shift), length_m, height_m, thickness_m, material: material.clone() });
+                    out.push(Fin { name: format!("{}{suffix}", f.name.value), mount: shifted(mount, shift), length_m, height_m, thickness_m, material: material.clone(), lane: lane_of(&f.lane) });
                 }
             }
         }
@@ -570,6 +570,7 @@ impl Validator {
                         force: force.clone(),
                         remanence_temp_coeff_per_k: beta,
                         grade,
+                        lane: lane_of(&s.lane),
                     });
                 }
             }
@@ -579,7 +580,7 @@ impl Validator {
         let spans: Vec<(usize, f64, f64)> = out.iter().enumerate().filter_map(|(i, s)| track_span(s.mount, s.length_m).map(|(a, b)| (i, a, b))).collect();
         for (k, &(i, a0, a1)) in spans.iter().enumerate() {
             for &(j, b0, b1) in &spans[k + 1..] {
-                if a0 < b1 - 1e-12 && b0 < a1 - 1e-12 {
+                if out[i].lane == out[j].lane && a0 < b1 - 1e-12 && b0 < a1 - 1e-12 {
                     self.push(None, path, format!("sections '{}' and '{}' overlap along the track", out[i].name, out[j].name));
                 }
             }
@@ -1101,6 +1102,10 @@ impl Validator {
             slot_pitch_m: sp,
         })
     }
+}
+
+fn lane_of(lane: &Option<String>) -> String {
+    lane.clone().unwrap_or_else(|| "main".to_string())
 }
 
 fn shifted(mount: Mount, by: f64) -> Mount {

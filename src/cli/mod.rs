@@ -1,0 +1,70 @@
+//! The command line: one file per command, each turning options into library calls and output.
+
+pub mod curve;
+pub mod run;
+
+use crate::error::Error;
+use crate::scenario::{self, Scenario};
+use clap::{Parser, Subcommand};
+use std::path::{Path, PathBuf};
+
+/// Concept-stage design of permanent-magnet eddy-current braking zones on linear tracks.
+#[derive(Debug, Parser)]
+#[command(name = "eddyzone", version, about, long_about = None)]
+pub struct Cli {
+    /// The command.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The commands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Force–speed curve of each section and fin.
+    Curve(curve::CurveArgs),
+    /// The vehicle's run through the zone for every case.
+    Run(run::RunArgs),
+}
+
+/// Runs a parsed command line; returns the exit code.
+pub fn dispatch(cli: Cli) -> Result<i32, Error> {
+    match cli.command {
+        Command::Curve(a) => curve::execute(&a),
+        Command::Run(a) => run::execute(&a),
+    }
+}
+
+/// Reads and validates a scenario file.
+pub fn load(path: &Path) -> Result<Scenario, Error> {
+    Ok(scenario::load(path)?)
+}
+
+/// Selects one case by name, or all.
+pub fn select_cases(s: &mut Scenario, case: &Option<String>) -> Result<(), Error> {
+    if let Some(name) = case {
+        if s.case(name).is_none() {
+            let names: Vec<_> = s.cases.iter().map(|c| c.name.as_str()).collect();
+            return Err(Error::Usage(format!("--case: no case named '{name}' (cases: {})", names.join(", "))));
+        }
+        s.cases.retain(|c| &c.name == name);
+    }
+    Ok(())
+}
+
+/// Writes a file atomically, mapping the error.
+pub fn write_file(path: &Path, bytes: &[u8]) -> Result<(), Error> {
+    crate::report::write_atomic(path, bytes).map_err(|e| Error::Output { path: path.display().to_string(), message: e.to_string() })
+}
+
+/// Creates a folder (and parents).
+pub fn make_dir(dir: &PathBuf) -> Result<(), Error> {
+    std::fs::create_dir_all(dir).map_err(|e| Error::Output { path: dir.display().to_string(), message: e.to_string() })
+}
+
+/// Parses a temperature option ("45", "45 °C", "318 K"); a plain number is °C on the command line.
+pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f64>, Error> {
+    let Some(t) = text else { return Ok(None) };
+    let t = t.trim();
+    let with_unit = if t.parse::<f64>().is_ok() { format!("{t} °C") } else { t.to_string() };
+    crate::units::from_text(crate::units::Kind::Temperature, &with_unit).map(Some).map_err(|e| Error::Usage(format!("{name}: {e}")))
+}

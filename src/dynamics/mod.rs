@@ -1,0 +1,161 @@
+//! The vehicle's motion through the zone: gravity and resistance (`track`), the brake pairs
+//! (`model`) and the integrator with event location (`integrate`). Physics never calls the
+//! integrator; the integrator never formats output.
+
+pub mod integrate;
+pub mod model;
+pub mod track;
+
+pub use integrate::{simulate, simulate_case, RunOptions, Sampling};
+pub use model::BrakeTables;
+
+use serde::Serialize;
+
+/// Errors of the dynamics layer.
+#[derive(Debug, Clone, thiserror::Error)]
+pub enum DynamicsError {
+    /// A pair's force law could not be built.
+    #[error("fin '{fin}' in section '{section}': {message}")]
+    Physics {
+        /// Fin name.
+        fin: String,
+        /// Section name.
+        section: String,
+        /// Cause.
+        message: String,
+    },
+    /// The integrator failed.
+    #[error("case '{case}': the integrator failed at t = {t_s:.6} s: {message}")]
+    Integration {
+        /// Case name.
+        case: String,
+        /// Time of failure, s.
+        t_s: f64,
+        /// Cause.
+        message: String,
+    },
+}
+
+/// How a run ended.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Outcome {
+    /// Left the zone in its initial direction of travel.
+    Cleared,
+    /// Came to rest (|v| below the stall speed) inside the zone; a holding brake must take over.
+    Stalled,
+    /// Reversed and left the zone at the end it came in by.
+    RolledBack,
+    /// Still in the zone at the time limit.
+    TimeLimit,
+}
+
+impl Outcome {
+    /// The snake-case name used in output.
+    pub fn name(self) -> &'static str {
+        match self {
+            Outcome::Cleared => "cleared",
+            Outcome::Stalled => "stalled",
+            Outcome::RolledBack => "rolled_back",
+            Outcome::TimeLimit => "time_limit",
+        }
+    }
+}
+
+/// One sample of a run.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Sample {
+    /// s.
+    pub t_s: f64,
+    /// Vehicle front, m.
+    pub s_m: f64,
+    /// m/s.
+    pub v_m_s: f64,
+    /// m/s².
+    pub a_m_s2: f64,
+    /// Deceleration along the direction of travel, g.
+    pub decel_g: f64,
+    /// Rate of change of the deceleration, g/s.
+    pub onset_g_s: f64,
+    /// Brake force along the track (negative brakes forward motion), N.
+    pub brake_force_n: f64,
+    /// Gravity along the track, N.
+    pub gravity_force_n: f64,
+    /// Resistance along the track, N.
+    pub resistance_force_n: f64,
+    /// cos θ of the mean inclination under the vehicle.
+    pub cos_theta: f64,
+    /// Total fin–magnet overlap of active pairs, m.
+    pub overlap_m: f64,
+    /// Whether the sample is at an event.
+    pub event: bool,
+}
+
+/// Energy dissipated in and temperature of one fin over the pass.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FinHeat {
+    /// Fin name.
+    pub fin: String,
+    /// Energy dissipated in this fin, J.
+    pub energy_j: f64,
+    /// Temperature before the pass, °C.
+    pub start_temp_c: f64,
+    /// Temperature at the end of the pass (vehicle fins, no cooling during the pass), °C.
+    pub end_temp_c: f64,
+}
+
+/// The result of one case.
+#[derive(Debug, Clone, Serialize)]
+pub struct RunResult {
+    /// Case name.
+    pub case: String,
+    /// kg.
+    pub mass_kg: f64,
+    /// How it ended.
+    pub outcome: Outcome,
+    /// Whether the direction of travel reversed at some point.
+    pub reversed: bool,
+    /// Speed when the first fin meets the first active section, m/s (None: never entered).
+    pub entry_speed_m_s: Option<f64>,
+    /// Signed speed along the track when the vehicle left the zone, m/s.
+    pub exit_speed_m_s: Option<f64>,
+    /// Lowest |v| between entry and the end of the run, m/s.
+    pub min_speed_m_s: Option<f64>,
+    /// Front position at the stall, m.
+    pub stall_position_m: Option<f64>,
+    /// Peak deceleration along the direction of travel inside the zone, m/s².
+    pub peak_decel_m_s2: Option<f64>,
+    /// Time of the peak, s.
+    pub peak_decel_time_s: Option<f64>,
+    /// Front position at the peak, m.
+    pub peak_decel_position_m: Option<f64>,
+    /// Largest rate of rise of deceleration inside the zone, g/s.
+    pub peak_onset_g_s: Option<f64>,
+    /// From entry to exit (or stall / end), s.
+    pub time_in_zone_s: Option<f64>,
+    /// Entry time, s.
+    pub entry_time_s: Option<f64>,
+    /// ∫ |brake force · v| dt, J.
+    pub braking_energy_j: f64,
+    /// Work done against resistance, J.
+    pub resistance_energy_j: f64,
+    /// Kinetic + potential + dissipated − initial, J.
+    pub energy_residual_j: f64,
+    /// Initial kinetic + potential energy (reference 0 at s = 0), J.
+    pub initial_energy_j: f64,
+    /// Largest |brake force|, N.
+    pub peak_brake_force_n: f64,
+    /// Accepted integrator steps.
+    pub steps: u64,
+    /// Right-hand-side evaluations.
+    pub rhs_evaluations: u64,
+    /// End time, s.
+    pub end_time_s: f64,
+    /// Per-fin heat.
+    pub fins: Vec<FinHeat>,
+    /// Warnings (e.g. a measured curve left its range).
+    pub warnings: Vec<String>,
+    /// Samples (every dt and at events; inside the zone only unless full sampling was asked for).
+    #[serde(skip)]
+    pub samples: Vec<Sample>,
+}

@@ -1,0 +1,277 @@
+//! The brake model of one case: every fin × magnet-section pair on the same lane, its overlap as
+//! a function of the vehicle position, and its force law at the case's temperatures.
+//!
+//! Force tables are built once per scenario at the reference state (20 °C fin, 20 °C magnets)
+//! and rescaled exactly: the layer force depends on conductivity and speed only through σ·v, and
+//! on remanence as Br², so a fin at T sees f_ref(v·σ(T)/σ20)·(Br(T)/Br20)².
+
+use super::DynamicsError;
+use crate::constants::REFERENCE_TEMPERATURE_C;
+use crate::physics::{BrakeGeometry, DragModel, ForceTable, MeasuredCurve};
+use crate::scenario::{Arrangement, Case, Fin, ForceSource, Mount, Scenario, Section};
+use std::sync::Arc;
+
+/// How a pair's force per metre of overlap is obtained.
+#[derive(Debug, Clone)]
+pub enum PairLaw {
+    /// Layer model through a reference table; force per metre = table · active height.
+    Table {
+        /// f(v) per m² of pole face at 20 °C.
+        table: Arc<ForceTable>,
+        /// The model behind the table (for reports).
+        model: Arc<DragModel>,
+        /// m.
+        active_height_m: f64,
+    },
+    /// Measured force per metre of overlap.
+    Measured {
+        /// The curve.
+        curve: Arc<MeasuredCurve>,
+        /// Fin temperature of the measurement, °C.
+        fin_temp_c: f64,
+        /// Magnet temperature of the measurement, °C.
+        magnet_temp_c: f64,
+    },
+}
+
+/// A fin × section pair: geometry along the track and the force law at 20 °C.
+#[derive(Debug, Clone)]
+pub struct PairSpec {
+    /// Index into `Scenario::fins`.
+    pub fin: usize,
+    /// Index into `Scenario::sections`.
+    pub section: usize,
+    /// Offset of the vehicle-mounted element behind the vehicle front, m.
+    pub vehicle_offset_m: f64,
+    /// Length of the vehicle-mounted element, m.
+    pub vehicle_len_m: f64,
+    /// Upstream end of the track-mounted element, m.
+    pub track_start_m: f64,
+    /// Length of the track-mounted element, m.
+    pub track_len_m: f64,
+    /// Force law.
+    pub law: PairLaw,
+}
+
+impl PairSpec {
+    /// Overlap length for the vehicle front at `x`, m.
+    pub fn overlap_m(&self, x: f64) -> f64 {
+        let u = x - self.vehicle_offset_m;
+        let hi = u.min(self.track_start_m + self.track_len_m);
+        let lo = (u - self.vehicle_len_m).max(self.track_start_m);
+        (hi - lo).max(0.0)
+    }
+
+    /// Front positions where the overlap has a kink.
+    pub fn kinks(&self) -> [f64; 4] {
+        let o = self.vehicle_offset_m;
+        let (s0, s1, l) = (self.track_start_m, self.track_start_m + self.track_len_m, self.vehicle_len_m);
+        [s0 + o, s1 + o, s0 + o + l, s1 + o + l]
+    }
+
+    /// The overlap as the linear law α + β·x that holds around `x_mid` (strictly between kinks).
+    pub fn linear_overlap(&self, x_mid: f64) -> (f64, f64) {
+        let u = x_mid - self.vehicle_offset_m;
+        let s1 = self.track_start_m + self.track_len_m;
+        let (hi, dhi) = if u < s1 { (u, 1.0) } else { (s1, 0.0) };
+        let (lo, dlo) = if u - self.vehicle_len_m > self.track_start_m { (u - self.vehicle_len_m, 1.0) } else { (self.track_start_m, 0.0) };
+        if hi - lo <= 0.0 {
+            return (0.0, 0.0);
+        }
+        let beta = dhi - dlo;
+        (hi - lo - beta * x_mid, beta)
+    }
+}
+
+/// Force tables of a scenario, built once and shared by its cases.
+#[derive(Debug, Clone)]
+pub struct BrakeTables {
+    /// One entry per pair.
+    pub pairs: Vec<PairSpec>,
+}
+
+/// The brake geometry of a fin in a section's magnets.
+pub fn geometry(fin: &Fin, design: &crate::scenario::MagnetDesign) -> BrakeGeometry {
+    BrakeGeometry {
+        pole_pitch_m: design.pole_pitch_m,
+        magnet_thickness_m: design.magnet_thickness_m,
+        magnet_fill: design.magnet_fill,
+        clearance_m: design.clearance_m,
+        fin_thickness_m: fin.thickness_m,
+        fin_height_m: fin.height_m,
+        pole_height_m: design.pole_height_m,
+    }
+}
+
+/// The layer model of a fin in a section (20 °C).
+pub fn drag_model(fin: &Fin, section: &Section) -> Result<Option<DragModel>, DynamicsError> {
+    let Some(design) = section.design() else { return Ok(None) };
+    DragModel::new(&geometry(fin, design), design.remanence_t, fin.material.conductivity_s_m)
+        .map(Some)
+        .map_err(|e| DynamicsError::Physics { fin: fin.name.clone(), section: section.name.clone(), message: e.to_string() })
+}
+
+/// A generous upper bound on the speeds any case of the scenario reaches, m/s.
+pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
+    use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+    let track = super::track::TrackModel::new(&scenario.track.gravity, scenario.track.air_density_kg_m3, scenario.vehicle.length_m);
+    let top = scenario.cases.iter().map(|c| c.start_speed_m_s.abs()).fold(0.0, f64::max);
+    // Largest drop from any start to the zone end.
+    let drop = scenario
+        .cases
+        .iter()
+        .map(|c| track.elevation_m(c.start_position_m) - track.elevation_m(scenario.zone_end_m).min(track.elevation_m(scenario.zone_start_m)))
+        .fold(0.0, f64::max)
+        .max(0.0);
+    1.25 * (top * top + 2.0 * G * drop).sqrt() + 5.0
+}
+
+impl BrakeTables {
+    /// Builds every pair's force law for the scenario.
+    pub fn build(scenario: &Scenario) -> Result<Self, DynamicsError> {
+        let vmax = speed_bound_m_s(scenario);
+        let mut pairs = Vec::new();
+        for (fi, fin) in scenario.fins.iter().enumerate() {
+            for (si, sec) in scenario.sections.iter().enumerate() {
+                if fin.lane != sec.lane {
+                    continue;
+                }
+                let law = match &sec.force {
+                    ForceSource::Model(design) => {
+                        let model = drag_model(fin, sec)?.ok_or_else(|| DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: "no design".into() })?;
+                        let table = ForceTable::build(&model, vmax);
+                        let _ = design;
+                        PairLaw::Table { active_height_m: model.geometry().active_height_m(), table: Arc::new(table), model: Arc::new(model) }
+                    }
+                    ForceSource::Measured(m) => {
+                        let curve = MeasuredCurve::new(&m.points).map_err(|e| DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: e.to_string() })?;
+                        PairLaw::Measured { curve: Arc::new(curve), fin_temp_c: m.fin_temp_c, magnet_temp_c: m.magnet_temp_c }
+                    }
+                };
+                let (vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m) = match (scenario.arrangement, fin.mount, sec.mount) {
+                    (Arrangement::FinsOnVehicle, Mount::Vehicle { offset_m }, Mount::Track { start_m }) => (offset_m, fin.length_m, start_m, sec.length_m),
+                    (Arrangement::MagnetsOnVehicle, Mount::Track { start_m }, Mount::Vehicle { offset_m }) => (offset_m, sec.length_m, start_m, fin.length_m),
+                    _ => return Err(DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: "inconsistent mounting".into() }),
+                };
+                pairs.push(PairSpec { fin: fi, section: si, vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m, law });
+            }
+        }
+        Ok(Self { pairs })
+    }
+}
+
+/// A pair's force law at the case's magnet temperature; the fin temperature is applied per call.
+#[derive(Debug, Clone)]
+pub struct ActivePair {
+    /// The pair.
+    pub spec: PairSpec,
+    /// Br(T)/Br_ref of the magnets for this case.
+    pub remanence_ratio: f64,
+    /// Fin resistivity temperature coefficient, 1/K.
+    pub fin_alpha_per_k: f64,
+    /// Fin resistivity ratio ρ(T_ref)/ρ(20 °C) of the law's reference (1 for tables).
+    pub reference_resistivity_ratio: f64,
+}
+
+impl ActivePair {
+    /// Force per metre of overlap at `speed_m_s` with the fin at `fin_temp_c`, N/m (odd in v).
+    #[inline]
+    pub fn force_per_m_n(&self, speed_m_s: f64, fin_temp_c: f64) -> f64 {
+        // σ(T)/σ_ref = ρ_ref/ρ(T).
+        let rho_ratio = (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
+        let sigma_ratio = self.reference_resistivity_ratio / rho_ratio;
+        match &self.spec.law {
+            PairLaw::Table { table, active_height_m, .. } => table.force_per_area_scaled_pa(speed_m_s, sigma_ratio, self.remanence_ratio) * active_height_m,
+            PairLaw::Measured { curve, .. } => self.remanence_ratio * self.remanence_ratio * curve.force_per_m_n(speed_m_s * sigma_ratio),
+        }
+    }
+
+    /// Whether a measured law covers this speed (always true for tables).
+    pub fn covers(&self, speed_m_s: f64, fin_temp_c: f64) -> bool {
+        match &self.spec.law {
+            PairLaw::Table { .. } => true,
+            PairLaw::Measured { curve, .. } => {
+                let rho_ratio = (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
+                curve.covers(speed_m_s.abs() * self.reference_resistivity_ratio / rho_ratio)
+            }
+        }
+    }
+}
+
+/// Remanence ratio Br(T)/Br(T_ref) for a reversible coefficient β: (1 + β(T − 20))/(1 + β(T_ref − 20)).
+pub fn remanence_ratio(beta_per_k: f64, temp_c: f64, reference_c: f64) -> f64 {
+    let r = (1.0 + beta_per_k * (temp_c - REFERENCE_TEMPERATURE_C)) / (1.0 + beta_per_k * (reference_c - REFERENCE_TEMPERATURE_C));
+    r.max(0.0)
+}
+
+/// The active pairs of a case (disabled sections removed).
+pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> Vec<ActivePair> {
+    tables
+        .pairs
+        .iter()
+        .filter(|p| !case.disabled.contains(&p.section))
+        .map(|p| {
+            let sec = &scenario.sections[p.section];
+            let fin = &scenario.fins[p.fin];
+            let alpha = fin.material.temp_coeff_per_k;
+            let (mag_ref, fin_ref_rho) = match &p.law {
+                PairLaw::Table { .. } => (REFERENCE_TEMPERATURE_C, 1.0),
+                PairLaw::Measured { fin_temp_c, magnet_temp_c, .. } => (*magnet_temp_c, (1.0 + alpha * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05)),
+            };
+            let br = remanence_ratio(sec.remanence_temp_coeff_per_k, case.magnet_temp_c, mag_ref);
+            ActivePair { spec: p.clone(), remanence_ratio: br, fin_alpha_per_k: alpha, reference_resistivity_ratio: fin_ref_rho }
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn pair() -> PairSpec {
+        PairSpec {
+            fin: 0,
+            section: 0,
+            vehicle_offset_m: 1.0,
+            vehicle_len_m: 2.0,
+            track_start_m: 10.0,
+            track_len_m: 3.0,
+            law: PairLaw::Measured { curve: Arc::new(MeasuredCurve::new(&[(0.0, 0.0), (10.0, 100.0)]).unwrap()), fin_temp_c: 20.0, magnet_temp_c: 20.0 },
+        }
+    }
+
+    #[test]
+    fn overlap_trapezoid() {
+        let p = pair();
+        // Element [x-3, x-1] against [10, 13].
+        assert_eq!(p.overlap_m(11.0), 0.0);
+        assert_eq!(p.overlap_m(12.0), 1.0);
+        assert_eq!(p.overlap_m(13.0), 2.0);
+        assert_eq!(p.overlap_m(15.0), 2.0);
+        assert_eq!(p.overlap_m(16.0), 1.0);
+        assert_eq!(p.overlap_m(17.0), 0.0);
+        assert_eq!(p.kinks(), [11.0, 14.0, 13.0, 16.0]);
+        // ∫ overlap dx = fin length × section length (trapezoid area).
+        let n = 200_000;
+        let (a, b) = (10.0, 18.0);
+        let h = (b - a) / n as f64;
+        let area: f64 = (0..n).map(|i| p.overlap_m(a + (i as f64 + 0.5) * h) * h).sum();
+        assert!((area - 6.0).abs() < 1e-6, "{area}");
+    }
+
+    #[test]
+    fn linear_pieces_match() {
+        let p = pair();
+        for x in [11.5, 13.5, 15.0, 16.5, 20.0, 5.0] {
+            let (a, b) = p.linear_overlap(x);
+            assert!((a + b * x - p.overlap_m(x)).abs() < 1e-12, "x = {x}");
+            assert!((a + b * (x + 0.1) - p.overlap_m(x + 0.1)).abs() < 1e-12, "x = {x}");
+        }
+    }
+
+    #[test]
+    fn remanence_ratio_linear() {
+        // Br(80 °C)/Br(20 °C) = 1 − 0.0012·60 = 0.928.
+        assert!((remanence_ratio(-0.0012, 80.0, 20.0) - 0.928).abs() < 1e-12);
+    }
+}

@@ -1,0 +1,37 @@
+//! Output: tables, CSV, JSON, plots and the HTML report; every format reads the same result types.
+
+pub mod csv_out;
+pub mod json_out;
+pub mod text;
+
+use std::io::Write;
+use std::path::Path;
+
+/// The caution printed by `check` and carried by the README and the report.
+pub const CAUTION: &str = "CAUTION: eddyzone is a concept-stage design aid. Passenger-carrying devices need physical \
+testing and sign-off under the applicable standards (e.g. ASTM F2291, EN 13814) and local codes by licensed \
+engineers. Shipped limit values are examples, not the standards' text.";
+
+/// The tool version stamped into outputs.
+pub const VERSION: &str = env!("CARGO_PKG_VERSION");
+
+/// Writes a file atomically: a temporary file in the same folder, then a rename, so an
+/// interrupted run leaves no half-written file.
+pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    let dir = path.parent().filter(|p| !p.as_os_str().is_empty()).unwrap_or(Path::new("."));
+    let mut tmp = tempfile::NamedTempFile::new_in(dir)?;
+    tmp.write_all(bytes)?;
+    tmp.as_file().sync_all()?;
+    tmp.persist(path).map_err(|e| e.error)?;
+    Ok(())
+}
+
+/// A safe file-name stem for a case or section name.
+pub fn file_stem(name: &str) -> String {
+    let s: String = name.chars().map(|c| if c.is_ascii_alphanumeric() || c == '-' || c == '_' { c } else { '_' }).collect();
+    if s.is_empty() {
+        "case".into()
+    } else {
+        s
+    }
+}
