@@ -14,5 +14,7 @@ pub mod materials;
 pub mod scenario;
 /// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
 pub mod physics;
+/// Limit checks: rider acceleration, filtering, sustained-acceleration envelopes, verdicts.
+pub mod checks;
 /// The top-level error type and the exit codes.
 pub mod error;
