@@ -557,6 +557,40 @@ proptest! {
         }
     }
 
+    /// Linear interpolation stays within the range of the data (convex combinations), the grid
+    /// starts at the first time stamp and does not pass the last one; unsorted input is an error,
+    /// never a panic. Tolerance: 1e-12 of the value range.
+    #[test]
+    fn resampling_stays_in_range(
+        mut t in prop::collection::vec(-10.0f64..10.0, 1..60),
+        y in prop::collection::vec(-5.0f64..5.0, 60),
+        dt in 0.01f64..3.0,
+        shuffle in any::<bool>(),
+    ) {
+        let y = &y[..t.len()];
+        if shuffle {
+            t.reverse();
+        } else {
+            t.sort_by(f64::total_cmp);
+        }
+        match resample_uniform(&t, y, dt) {
+            Ok(s) => {
+                let lo = y.iter().copied().fold(f64::INFINITY, f64::min);
+                let hi = y.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+                prop_assert_eq!(s.t0_s, t[0]);
+                prop_assert!(s.time_s(s.len() - 1) <= t[t.len() - 1] + 1e-9 * dt);
+                prop_assert!(s.time_s(s.len()) > t[t.len() - 1]);
+                for v in &s.values {
+                    prop_assert!(*v >= lo - 1e-12 * 10.0 && *v <= hi + 1e-12 * 10.0);
+                }
+            }
+            Err(e) => prop_assert!(
+                matches!(e, SignalError::TimeDecreasing { .. }),
+                "unexpected error {:?}", e
+            ),
+        }
+    }
+
     /// S(D) is non-increasing in D (a window of length D₂ > D₁ contains one of length D₁), and
     /// S(0) is the maximum sample. Tolerance: 1e-12 of the value range for monotonicity; exact
     /// for S(0).
