@@ -22,5 +22,7 @@ pub mod report;
 pub mod cli;
 /// The vehicle's motion through the zone: gravity, resistance, brake pairs, events.
 pub mod dynamics;
+/// Limit checks: rider acceleration, filtering, sustained-acceleration envelopes, verdicts.
+pub mod checks;
 /// The top-level error type and the exit codes.
 pub mod error;

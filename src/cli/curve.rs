@@ -60,6 +60,7 @@ pub fn parse_speeds(text: &str) -> Result<Vec<f64>, Error> {
 /// Runs `curve`.
 pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
     let s = load(&a.scenario)?;
+    let mut out = String::new();
     let tables = BrakeTables::build(&s).map_err(|e| Error::Compute(e.to_string()))?;
     let speeds = match &a.speeds {
         Some(t) => parse_speeds(t)?,
@@ -74,16 +75,16 @@ pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
     match a.format {
         Format::Csv => {
             let bytes = csv_out::curves_csv(&c).map_err(|e| Error::Compute(e.to_string()))?;
-            print!("{}", String::from_utf8_lossy(&bytes));
+            outp!(out, "{}", String::from_utf8_lossy(&bytes));
         }
-        Format::Json => println!("{}", json_out::curves_json(&c).map_err(|e| Error::Compute(e.to_string()))?),
+        Format::Json => outln!(out, "{}", json_out::curves_json(&c).map_err(|e| Error::Compute(e.to_string()))?),
         Format::Table => {
-            println!("{} — force–speed curves", s.name);
+            outln!(out, "{} — force–speed curves", s.name);
             let mut t = Table::new(&["section", "fin", "critical_speed_m_s", "peak_force_per_m_n", "edge_factor", "gap_field_t", "skin_depth_at_critical_mm"]);
             for p in &c {
                 t.row(vec![p.section.clone(), p.fin.clone(), num(Some(p.critical_speed_m_s), 3), num(Some(p.peak_force_per_m_n), 1), num(p.edge_factor, 4), num(p.gap_field_t, 4), num(p.skin_depth_at_critical_m.map(|d| d * 1e3), 2)]);
             }
-            print!("{}", t.render());
+            outp!(out, "{}", t.render());
             // Points of the first pair of each distinct section design (repeated copies share one curve).
             let mut seen: Vec<(String, String)> = Vec::new();
             for p in &c {
@@ -92,16 +93,17 @@ pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
                     continue;
                 }
                 seen.push(base);
-                println!("\n{} × {}", p.section, p.fin);
+                outln!(out, "\n{} × {}", p.section, p.fin);
                 let mut t = Table::new(&["speed_m_s", "force_per_area_pa", "fundamental_pa", "force_per_m_n", "force_full_overlap_n"]);
                 let stride = (p.points.len() / 25).max(1);
                 for q in p.points.iter().step_by(stride) {
                     t.row(vec![num(Some(q.speed_m_s), 2), num(q.force_per_area_pa, 1), num(q.force_per_area_fundamental_pa, 1), num(Some(q.force_per_m_n), 1), num(Some(q.force_full_overlap_n), 1)]);
                 }
-                print!("{}", t.render());
+                outp!(out, "{}", t.render());
             }
         }
     }
+    super::emit(&out)?;
     Ok(crate::error::EXIT_OK)
 }
 

@@ -1,5 +1,14 @@
 //! The command line: one file per command, each turning options into library calls and output.
 
+/// Appends a formatted line to an output buffer.
+macro_rules! outln {
+    ($buf:expr, $($arg:tt)*) => {{ use std::fmt::Write as _; let _ = writeln!($buf, $($arg)*); }};
+}
+/// Appends formatted text to an output buffer.
+macro_rules! outp {
+    ($buf:expr, $($arg:tt)*) => {{ use std::fmt::Write as _; let _ = write!($buf, $($arg)*); }};
+}
+
 pub mod curve;
 pub mod run;
 
@@ -49,6 +58,17 @@ pub fn select_cases(s: &mut Scenario, case: &Option<String>) -> Result<(), Error
         s.cases.retain(|c| &c.name == name);
     }
     Ok(())
+}
+
+/// Prints to standard output; a closed pipe (`| head`) is not an error.
+pub fn emit(text: &str) -> Result<(), Error> {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
+        Ok(()) => Ok(()),
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
+        Err(e) => Err(Error::Output { path: "<stdout>".into(), message: e.to_string() }),
+    }
 }
 
 /// Writes a file atomically, mapping the error.

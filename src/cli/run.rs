@@ -65,6 +65,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
         return Err(Error::Usage(format!("--dt: {} s is outside 1e-5 to 1 s", a.dt)));
     }
     let mut s = load(&a.scenario)?;
+    let mut out = String::new();
     select_cases(&mut s, &a.case)?;
     let full = a.profile.is_some();
     let options = RunOptions { sample_dt_s: a.dt, sampling: if full { Sampling::Full } else { Sampling::ZoneOnly }, ..RunOptions::default() };
@@ -78,15 +79,16 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
     }
     if a.json {
         let j = json_out::RunJson::new(&s.name, &results);
-        println!("{}", serde_json::to_string_pretty(&j).map_err(|e| Error::Compute(e.to_string()))?);
+        outln!(out, "{}", serde_json::to_string_pretty(&j).map_err(|e| Error::Compute(e.to_string()))?);
     } else {
-        println!("{} — run through the zone ({} case{})", s.name, results.len(), if results.len() == 1 { "" } else { "s" });
-        print!("{}", run_table(&results));
+        outln!(out, "{} — run through the zone ({} case{})", s.name, results.len(), if results.len() == 1 { "" } else { "s" });
+        outp!(out, "{}", run_table(&results));
         for r in &results {
             for w in &r.warnings {
-                println!("warning: {}: {w}", r.case);
+                outln!(out, "warning: {}: {w}", r.case);
             }
         }
     }
+    super::emit(&out)?;
     Ok(crate::error::EXIT_OK)
 }
