@@ -247,9 +247,9 @@ mod tests {
         assert_eq!(p.overlap_m(11.0), 0.0);
         assert_eq!(p.overlap_m(12.0), 1.0);
         assert_eq!(p.overlap_m(13.0), 2.0);
-        assert_eq!(p.overlap_m(15.0), 2.0);
-        assert_eq!(p.overlap_m(16.0), 1.0);
-        assert_eq!(p.overlap_m(17.0), 0.0);
+        assert_eq!(p.overlap_m(14.0), 2.0);
+        assert_eq!(p.overlap_m(15.0), 1.0);
+        assert_eq!(p.overlap_m(16.0), 0.0);
         assert_eq!(p.kinks(), [11.0, 14.0, 13.0, 16.0]);
         // ∫ overlap dx = fin length × section length (trapezoid area).
         let n = 200_000;

@@ -2,6 +2,7 @@
 
 pub mod csv_out;
 pub mod json_out;
+pub mod plots;
 pub mod text;
 
 use std::io::Write;
