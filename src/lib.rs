@@ -26,13 +26,3 @@ pub mod dynamics;
 pub mod checks;
 /// The top-level error type and the exit codes.
 pub mod error;
-/// Built-in conductor materials, each value with its source.
-pub mod materials;
-/// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
-pub mod physics;
-/// Output: tables, CSV, JSON, plots and the HTML report; every format reads the same result types.
-pub mod report;
-/// The scenario file: raw YAML shapes, validation, and the validated model in SI.
-pub mod scenario;
-/// "value unit" strings to SI, one quantity kind per field.
-pub mod units;
