@@ -72,19 +72,32 @@ pub fn default_speeds(scenario: &Scenario, tables: &BrakeTables) -> Vec<f64> {
     let vmax = (3.0 * vc).max(crate::dynamics::model::speed_bound_m_s(scenario));
     let raw = vmax / 200.0;
     let mag = 10f64.powf(raw.log10().floor());
-    let step = [1.0, 2.0, 2.5, 5.0, 10.0].iter().map(|m| m * mag).find(|s| *s >= raw).unwrap_or(raw);
+    let step = [1.0, 2.0, 2.5, 5.0, 10.0]
+        .iter()
+        .map(|m| m * mag)
+        .find(|s| *s >= raw)
+        .unwrap_or(raw);
     (1..=200).map(|i| i as f64 * step).collect()
 }
 
 fn matches(name: &str, wanted: &str) -> bool {
-    name == wanted || name.strip_prefix(wanted).is_some_and(|r| r.starts_with('-') && r[1..].chars().all(|c| c.is_ascii_digit()))
+    name == wanted
+        || name
+            .strip_prefix(wanted)
+            .is_some_and(|r| r.starts_with('-') && r[1..].chars().all(|c| c.is_ascii_digit()))
 }
 
 /// Curves of every pair (or one section's pairs).
 pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions) -> Vec<PairCurve> {
     let case = scenario.cases.first();
-    let fin_t = options.fin_temp_c.or(case.map(|c| c.fin_temp_c)).unwrap_or(REFERENCE_TEMPERATURE_C);
-    let mag_t = options.magnet_temp_c.or(case.map(|c| c.magnet_temp_c)).unwrap_or(REFERENCE_TEMPERATURE_C);
+    let fin_t = options
+        .fin_temp_c
+        .or(case.map(|c| c.fin_temp_c))
+        .unwrap_or(REFERENCE_TEMPERATURE_C);
+    let mag_t = options
+        .magnet_temp_c
+        .or(case.map(|c| c.magnet_temp_c))
+        .unwrap_or(REFERENCE_TEMPERATURE_C);
     let mut out = Vec::new();
     for p in &tables.pairs {
         let sec = &scenario.sections[p.section];
@@ -97,22 +110,52 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
         let full = fin.length_m.min(sec.length_m);
         let rho = fin.material.resistivity_ratio(fin_t);
         match &p.law {
-            PairLaw::Table { model, active_height_m, .. } => {
+            PairLaw::Table {
+                model,
+                active_height_m,
+                ..
+            } => {
                 let sr = 1.0 / rho;
-                let br = remanence_ratio(sec.remanence_temp_coeff_per_k, mag_t, REFERENCE_TEMPERATURE_C);
-                out.push(model_curve(&sec.name, &fin.name, model, *active_height_m, full, sr, br, &options.speeds_m_s));
+                let br = remanence_ratio(
+                    sec.remanence_temp_coeff_per_k,
+                    mag_t,
+                    REFERENCE_TEMPERATURE_C,
+                );
+                out.push(model_curve(
+                    &sec.name,
+                    &fin.name,
+                    model,
+                    *active_height_m,
+                    full,
+                    sr,
+                    br,
+                    &options.speeds_m_s,
+                ));
             }
-            PairLaw::Measured { curve, fin_temp_c, magnet_temp_c } => {
+            PairLaw::Measured {
+                curve,
+                fin_temp_c,
+                magnet_temp_c,
+            } => {
                 let sr = fin.material.resistivity_ratio(*fin_temp_c) / rho;
                 let br = remanence_ratio(sec.remanence_temp_coeff_per_k, mag_t, *magnet_temp_c);
                 let f = |v: f64| br * br * curve.force_per_m_n(v * sr);
                 let points: Vec<CurvePoint> = options
                     .speeds_m_s
                     .iter()
-                    .map(|&v| CurvePoint { speed_m_s: v, force_per_area_pa: None, force_per_area_fundamental_pa: None, force_per_m_n: f(v), force_full_overlap_n: f(v) * full })
+                    .map(|&v| CurvePoint {
+                        speed_m_s: v,
+                        force_per_area_pa: None,
+                        force_per_area_fundamental_pa: None,
+                        force_per_m_n: f(v),
+                        force_full_overlap_n: f(v) * full,
+                    })
                     .collect();
                 // Peak of the measured data (a monotone interpolant peaks at a data point).
-                let (vc, fc) = curve.points().map(|(v, _)| (v / sr, f(v / sr))).fold((0.0, 0.0), |a, b| if b.1 > a.1 { b } else { a });
+                let (vc, fc) = curve
+                    .points()
+                    .map(|(v, _)| (v / sr, f(v / sr)))
+                    .fold((0.0, 0.0), |a, b| if b.1 > a.1 { b } else { a });
                 out.push(PairCurve {
                     section: sec.name.clone(),
                     fin: fin.name.clone(),
@@ -131,14 +174,29 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
 }
 
 #[allow(clippy::too_many_arguments)]
-fn model_curve(section: &str, fin: &str, model: &DragModel, height: f64, full: f64, sigma_ratio: f64, br: f64, speeds: &[f64]) -> PairCurve {
+fn model_curve(
+    section: &str,
+    fin: &str,
+    model: &DragModel,
+    height: f64,
+    full: f64,
+    sigma_ratio: f64,
+    br: f64,
+    speeds: &[f64],
+) -> PairCurve {
     let k = br * br;
     let points = speeds
         .iter()
         .map(|&v| {
             let f = k * model.force_per_area_pa(v * sigma_ratio);
             let f1 = k * model.force_per_area_fundamental_pa(v * sigma_ratio);
-            CurvePoint { speed_m_s: v, force_per_area_pa: Some(f), force_per_area_fundamental_pa: Some(f1), force_per_m_n: f * height, force_full_overlap_n: f * height * full }
+            CurvePoint {
+                speed_m_s: v,
+                force_per_area_pa: Some(f),
+                force_per_area_fundamental_pa: Some(f1),
+                force_per_m_n: f * height,
+                force_full_overlap_n: f * height * full,
+            }
         })
         .collect();
     let vc = model.critical_speed_m_s() / sigma_ratio;
@@ -152,7 +210,9 @@ fn model_curve(section: &str, fin: &str, model: &DragModel, height: f64, full: f
         edge_factor: Some(model.edge_factor()),
         gap_field_t: Some(model.gap_field_t() * br),
         skin_depth_at_critical_m: Some(skin_depth_m(k1 * vc, sigma)),
-        low_speed_coefficient_n_s_m2: Some(k * model.low_speed_coefficient_pa_s_m() * sigma_ratio * height),
+        low_speed_coefficient_n_s_m2: Some(
+            k * model.low_speed_coefficient_pa_s_m() * sigma_ratio * height,
+        ),
         points,
     }
 }

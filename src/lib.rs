@@ -4,25 +4,25 @@
 //! `plan` → `report` → `cli`. Each layer has its own error type; `error::Error` wraps them and
 //! maps them to exit codes.
 
-/// Physical constants with their sources.
-pub mod constants;
-/// "value unit" strings to SI, one quantity kind per field.
-pub mod units;
-/// Built-in conductor materials, each value with its source.
-pub mod materials;
-/// The scenario file: raw YAML shapes, validation, and the validated model in SI.
-pub mod scenario;
-/// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
-pub mod physics;
-/// Force–speed curves of each section × fin pair.
-pub mod curve;
-/// Output: tables, CSV, JSON, plots and the HTML report.
-pub mod report;
-/// Command implementations: options → library calls → output.
-pub mod cli;
-/// The vehicle's motion through the zone: gravity, resistance, brake pairs, events.
-pub mod dynamics;
 /// Limit checks: rider acceleration, filtering, sustained-acceleration envelopes, verdicts.
 pub mod checks;
+/// Command implementations: options → library calls → output.
+pub mod cli;
+/// Physical constants with their sources.
+pub mod constants;
+/// Force–speed curves of each section × fin pair.
+pub mod curve;
+/// The vehicle's motion through the zone: gravity, resistance, brake pairs, events.
+pub mod dynamics;
 /// The top-level error type and the exit codes.
 pub mod error;
+/// Built-in conductor materials, each value with its source.
+pub mod materials;
+/// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
+pub mod physics;
+/// Output: tables, CSV, JSON, plots and the HTML report.
+pub mod report;
+/// The scenario file: raw YAML shapes, validation, and the validated model in SI.
+pub mod scenario;
+/// "value unit" strings to SI, one quantity kind per field.
+pub mod units;

@@ -7,7 +7,10 @@ fn main() {
     match eddyzone::cli::dispatch(cli) {
         Ok(code) => std::process::exit(code),
         Err(e) => {
-            eprintln!("eddyzone: error: {}", e.to_string().replace('\n', "\neddyzone: error: "));
+            eprintln!(
+                "eddyzone: error: {}",
+                e.to_string().replace('\n', "\neddyzone: error: ")
+            );
             std::process::exit(e.exit_code());
         }
     }

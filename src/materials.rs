@@ -48,7 +48,13 @@ fn iacs(percent: f64) -> f64 {
     IACS_100_S_M * percent / 100.0
 }
 
-fn alloy(name: &str, percent_iacs: f64, density_kg_m3: f64, specific_heat: f64, source: &str) -> Material {
+fn alloy(
+    name: &str,
+    percent_iacs: f64,
+    density_kg_m3: f64,
+    specific_heat: f64,
+    source: &str,
+) -> Material {
     Material {
         name: name.to_string(),
         conductivity_s_m: iacs(percent_iacs),
@@ -127,13 +133,21 @@ mod tests {
     fn copper_at_100_c() {
         // ρ(100 °C)/ρ(20 °C) = 1 + 0.00393·80 = 1.3144 (IEC 60028 linear model).
         let cu = find_builtin("copper-c11000").unwrap();
-        assert_relative_eq!(cu.conductivity_at_s_m(100.0), 58.0e6 / 1.3144, max_relative = 1e-12);
+        assert_relative_eq!(
+            cu.conductivity_at_s_m(100.0),
+            58.0e6 / 1.3144,
+            max_relative = 1e-12
+        );
     }
 
     #[test]
     fn alloy_coefficients_scale_with_conductivity() {
         let a6061 = find_builtin("aluminium-6061-t6").unwrap();
-        assert_relative_eq!(a6061.temp_coeff_per_k, 0.00403 * 43.0 / 61.0, max_relative = 1e-12);
+        assert_relative_eq!(
+            a6061.temp_coeff_per_k,
+            0.00403 * 43.0 / 61.0,
+            max_relative = 1e-12
+        );
         // 43 % IACS ≈ 24.9 MS/m (ASM Handbook Vol. 2 lists 25 MS/m-class for 6061-T6).
         assert_relative_eq!(a6061.conductivity_s_m, 24.94e6, max_relative = 1e-3);
     }

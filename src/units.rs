@@ -124,7 +124,12 @@ impl Kind {
     fn units(self) -> &'static [(&'static str, f64, f64)] {
         const MPH: f64 = 0.44704; // exact: 1 mile = 1609.344 m (international yard and pound, 1959)
         match self {
-            Kind::Length => &[("m", 1.0, 0.0), ("cm", 1e-2, 0.0), ("mm", 1e-3, 0.0), ("km", 1e3, 0.0)],
+            Kind::Length => &[
+                ("m", 1.0, 0.0),
+                ("cm", 1e-2, 0.0),
+                ("mm", 1e-3, 0.0),
+                ("km", 1e3, 0.0),
+            ],
             Kind::Speed => &[
                 ("m/s", 1.0, 0.0),
                 ("km/h", 1.0 / 3.6, 0.0),
@@ -152,7 +157,12 @@ impl Kind {
                 ("1/°C", 1.0, 0.0),
                 ("%/°C", 1e-2, 0.0),
             ],
-            Kind::Density => &[("kg/m^3", 1.0, 0.0), ("kg/m3", 1.0, 0.0), ("g/cm^3", 1e3, 0.0), ("g/cm3", 1e3, 0.0)],
+            Kind::Density => &[
+                ("kg/m^3", 1.0, 0.0),
+                ("kg/m3", 1.0, 0.0),
+                ("g/cm^3", 1e3, 0.0),
+                ("g/cm3", 1e3, 0.0),
+            ],
             Kind::SpecificHeat => &[
                 ("J/(kg*K)", 1.0, 0.0),
                 ("J/(kg K)", 1.0, 0.0),
@@ -163,11 +173,28 @@ impl Kind {
             Kind::Force => &[("N", 1.0, 0.0), ("kN", 1e3, 0.0)],
             Kind::ForcePerLength => &[("N/m", 1.0, 0.0), ("kN/m", 1e3, 0.0)],
             Kind::Area => &[("m^2", 1.0, 0.0), ("m2", 1.0, 0.0), ("cm^2", 1e-4, 0.0)],
-            Kind::Time => &[("s", 1.0, 0.0), ("ms", 1e-3, 0.0), ("min", 60.0, 0.0), ("h", 3600.0, 0.0)],
-            Kind::Angle => &[("rad", 1.0, 0.0), ("deg", std::f64::consts::PI / 180.0, 0.0), ("°", std::f64::consts::PI / 180.0, 0.0)],
+            Kind::Time => &[
+                ("s", 1.0, 0.0),
+                ("ms", 1e-3, 0.0),
+                ("min", 60.0, 0.0),
+                ("h", 3600.0, 0.0),
+            ],
+            Kind::Angle => &[
+                ("rad", 1.0, 0.0),
+                ("deg", std::f64::consts::PI / 180.0, 0.0),
+                ("°", std::f64::consts::PI / 180.0, 0.0),
+            ],
             Kind::Ratio => &[("%", 1e-2, 0.0), ("1", 1.0, 0.0)],
-            Kind::Acceleration => &[("m/s^2", 1.0, 0.0), ("m/s2", 1.0, 0.0), ("g", STANDARD_GRAVITY_M_S2, 0.0)],
-            Kind::Jerk => &[("m/s^3", 1.0, 0.0), ("m/s3", 1.0, 0.0), ("g/s", STANDARD_GRAVITY_M_S2, 0.0)],
+            Kind::Acceleration => &[
+                ("m/s^2", 1.0, 0.0),
+                ("m/s2", 1.0, 0.0),
+                ("g", STANDARD_GRAVITY_M_S2, 0.0),
+            ],
+            Kind::Jerk => &[
+                ("m/s^3", 1.0, 0.0),
+                ("m/s3", 1.0, 0.0),
+                ("g/s", STANDARD_GRAVITY_M_S2, 0.0),
+            ],
             Kind::HeatTransfer => &[
                 ("W/(m^2*K)", 1.0, 0.0),
                 ("W/(m^2 K)", 1.0, 0.0),
@@ -332,9 +359,17 @@ mod tests {
         assert_relative_eq!(from_text(Kind::Length, "12mm").unwrap(), 0.012);
         assert_relative_eq!(from_text(Kind::Length, "1.5 m").unwrap(), 1.5);
         // 90 km/h = 25 m/s (definition of the kilometre per hour).
-        assert_relative_eq!(from_text(Kind::Speed, "90 km/h").unwrap(), 25.0, max_relative = 1e-12);
+        assert_relative_eq!(
+            from_text(Kind::Speed, "90 km/h").unwrap(),
+            25.0,
+            max_relative = 1e-12
+        );
         // 1 mph = 0.44704 m/s exactly (international mile, 1959).
-        assert_relative_eq!(from_text(Kind::Speed, "10 mph").unwrap(), 4.4704, max_relative = 1e-12);
+        assert_relative_eq!(
+            from_text(Kind::Speed, "10 mph").unwrap(),
+            4.4704,
+            max_relative = 1e-12
+        );
         assert_relative_eq!(from_text(Kind::Mass, "6.2 t").unwrap(), 6200.0);
         assert_relative_eq!(from_text(Kind::Length, "-2e-3 m").unwrap(), -0.002);
     }
@@ -342,13 +377,30 @@ mod tests {
     #[test]
     fn materials_units() {
         // 100 % IACS = 58.0 MS/m (IEC 60028).
-        assert_relative_eq!(from_text(Kind::Conductivity, "61 %IACS").unwrap(), 35.38e6, max_relative = 1e-12);
+        assert_relative_eq!(
+            from_text(Kind::Conductivity, "61 %IACS").unwrap(),
+            35.38e6,
+            max_relative = 1e-12
+        );
         assert_relative_eq!(from_text(Kind::Conductivity, "30 MS/m").unwrap(), 30e6);
-        assert_relative_eq!(from_text(Kind::TempCoefficient, "-0.12 %/K").unwrap(), -0.0012);
-        assert_relative_eq!(from_text(Kind::TempCoefficient, "0.0035 1/K").unwrap(), 0.0035);
+        assert_relative_eq!(
+            from_text(Kind::TempCoefficient, "-0.12 %/K").unwrap(),
+            -0.0012
+        );
+        assert_relative_eq!(
+            from_text(Kind::TempCoefficient, "0.0035 1/K").unwrap(),
+            0.0035
+        );
         assert_relative_eq!(from_text(Kind::Density, "2700 kg/m^3").unwrap(), 2700.0);
-        assert_relative_eq!(from_text(Kind::Density, "8.9 g/cm^3").unwrap(), 8900.0, max_relative = 1e-12);
-        assert_relative_eq!(from_text(Kind::SpecificHeat, "900 J/(kg*K)").unwrap(), 900.0);
+        assert_relative_eq!(
+            from_text(Kind::Density, "8.9 g/cm^3").unwrap(),
+            8900.0,
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            from_text(Kind::SpecificHeat, "900 J/(kg*K)").unwrap(),
+            900.0
+        );
     }
 
     #[test]
@@ -356,9 +408,19 @@ mod tests {
         assert_relative_eq!(from_text(Kind::Temperature, "20 °C").unwrap(), 20.0);
         assert_relative_eq!(from_text(Kind::Temperature, "20 degC").unwrap(), 20.0);
         // 0 °C = 273.15 K (SI Brochure, 9th edition).
-        assert_relative_eq!(from_text(Kind::Temperature, "293.15 K").unwrap(), 20.0, epsilon = 1e-12);
-        assert_eq!(from_number(Kind::Temperature, 20.0), Err(UnitError::TemperatureWithoutUnit));
-        assert_eq!(from_text(Kind::Temperature, "20"), Err(UnitError::TemperatureWithoutUnit));
+        assert_relative_eq!(
+            from_text(Kind::Temperature, "293.15 K").unwrap(),
+            20.0,
+            epsilon = 1e-12
+        );
+        assert_eq!(
+            from_number(Kind::Temperature, 20.0),
+            Err(UnitError::TemperatureWithoutUnit)
+        );
+        assert_eq!(
+            from_text(Kind::Temperature, "20"),
+            Err(UnitError::TemperatureWithoutUnit)
+        );
     }
 
     #[test]
@@ -378,16 +440,28 @@ mod tests {
 
     #[test]
     fn bad_text() {
-        assert!(matches!(from_text(Kind::Length, "abc"), Err(UnitError::NotANumber { .. })));
-        assert!(matches!(from_text(Kind::Length, "5 furlongs"), Err(UnitError::UnknownUnit { .. })));
-        assert!(matches!(from_number(Kind::Length, f64::NAN), Err(UnitError::NotFinite { .. })));
+        assert!(matches!(
+            from_text(Kind::Length, "abc"),
+            Err(UnitError::NotANumber { .. })
+        ));
+        assert!(matches!(
+            from_text(Kind::Length, "5 furlongs"),
+            Err(UnitError::UnknownUnit { .. })
+        ));
+        assert!(matches!(
+            from_number(Kind::Length, f64::NAN),
+            Err(UnitError::NotFinite { .. })
+        ));
         assert!(from_text(Kind::Length, "").is_err());
         assert!(from_text(Kind::Length, "e5 m").is_err());
     }
 
     #[test]
     fn angles_and_ratios() {
-        assert_relative_eq!(from_text(Kind::Angle, "-90 deg").unwrap(), -std::f64::consts::FRAC_PI_2);
+        assert_relative_eq!(
+            from_text(Kind::Angle, "-90 deg").unwrap(),
+            -std::f64::consts::FRAC_PI_2
+        );
         assert_relative_eq!(from_text(Kind::Ratio, "-100 %").unwrap(), -1.0);
         assert_relative_eq!(from_text(Kind::Acceleration, "1 g").unwrap(), 9.80665);
         assert_relative_eq!(from_text(Kind::Jerk, "2 g/s").unwrap(), 2.0 * 9.80665);

@@ -13,11 +13,18 @@ fn root() -> PathBuf {
 }
 
 fn run(args: &[&str], dir: &Path) -> Output {
-    Command::new(bin()).args(args).current_dir(dir).output().expect("the binary runs")
+    Command::new(bin())
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("the binary runs")
 }
 
 fn text(o: &Output) -> (String, String) {
-    (String::from_utf8_lossy(&o.stdout).into_owned(), String::from_utf8_lossy(&o.stderr).into_owned())
+    (
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
 }
 
 fn shipped() -> Vec<PathBuf> {
@@ -36,12 +43,26 @@ fn curve_csv_and_json_parse_back() {
     let tmp = tempfile::tempdir().unwrap();
     for sc in shipped() {
         let p = sc.to_str().unwrap();
-        let o = run(&["curve", p, "--format", "csv", "--speeds", "0.5:40:0.5"], tmp.path());
+        let o = run(
+            &["curve", p, "--format", "csv", "--speeds", "0.5:40:0.5"],
+            tmp.path(),
+        );
         let (out, err) = text(&o);
         assert!(o.status.success(), "{p}: {err}");
         let mut rdr = csv::Reader::from_reader(out.as_bytes());
         let header: Vec<String> = rdr.headers().unwrap().iter().map(String::from).collect();
-        assert_eq!(header, ["section", "fin", "speed_m_s", "force_per_area_pa", "force_per_area_fundamental_pa", "force_per_m_n", "force_full_overlap_n"]);
+        assert_eq!(
+            header,
+            [
+                "section",
+                "fin",
+                "speed_m_s",
+                "force_per_area_pa",
+                "force_per_area_fundamental_pa",
+                "force_per_m_n",
+                "force_full_overlap_n"
+            ]
+        );
         let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
         assert!(rows.len() >= 80, "{p}: {} rows", rows.len());
         for r in &rows {
@@ -56,7 +77,16 @@ fn curve_csv_and_json_parse_back() {
         let arr = j.as_array().unwrap();
         assert!(!arr.is_empty());
         for c in arr {
-            for k in ["section", "fin", "critical_speed_m_s", "peak_force_per_m_n", "edge_factor", "gap_field_t", "skin_depth_at_critical_m", "points"] {
+            for k in [
+                "section",
+                "fin",
+                "critical_speed_m_s",
+                "peak_force_per_m_n",
+                "edge_factor",
+                "gap_field_t",
+                "skin_depth_at_critical_m",
+                "points",
+            ] {
                 assert!(c.get(k).is_some(), "{p}: key {k} missing");
             }
             // The curve rises, peaks at the critical speed and falls beyond it (skin effect).
@@ -65,9 +95,15 @@ fn curve_csv_and_json_parse_back() {
             let f_at = |i: usize| pts[i]["force_per_m_n"].as_f64().unwrap();
             let v_at = |i: usize| pts[i]["speed_m_s"].as_f64().unwrap();
             let last = pts.len() - 1;
-            assert!(v_at(last) > 2.0 * vc, "{p}: default speed range should pass the peak");
+            assert!(
+                v_at(last) > 2.0 * vc,
+                "{p}: default speed range should pass the peak"
+            );
             let peak = c["peak_force_per_m_n"].as_f64().unwrap();
-            assert!(f_at(0) < peak && f_at(last) < peak, "{p}: rise and fall around the peak");
+            assert!(
+                f_at(0) < peak && f_at(last) < peak,
+                "{p}: rise and fall around the peak"
+            );
         }
     }
 }
@@ -84,9 +120,24 @@ fn run_table_and_json() {
         assert!(j["scenario"].is_string() && j["version"].is_string());
         for c in j["cases"].as_array().unwrap() {
             for k in [
-                "case", "mass_kg", "outcome", "entry_speed_m_s", "exit_speed_m_s", "min_speed_m_s", "stall_position_m", "peak_decel_m_s2", "peak_decel_g",
-                "peak_decel_time_s", "peak_decel_position_m", "peak_onset_g_s", "time_in_zone_s", "braking_energy_j", "energy_residual_j", "peak_brake_force_n",
-                "steps", "rhs_evaluations",
+                "case",
+                "mass_kg",
+                "outcome",
+                "entry_speed_m_s",
+                "exit_speed_m_s",
+                "min_speed_m_s",
+                "stall_position_m",
+                "peak_decel_m_s2",
+                "peak_decel_g",
+                "peak_decel_time_s",
+                "peak_decel_position_m",
+                "peak_onset_g_s",
+                "time_in_zone_s",
+                "braking_energy_j",
+                "energy_residual_j",
+                "peak_brake_force_n",
+                "steps",
+                "rhs_evaluations",
             ] {
                 assert!(c.get(k).is_some(), "{p}: key {k} missing");
             }
@@ -101,14 +152,32 @@ fn run_table_and_json() {
 fn run_profiles_are_written() {
     let tmp = tempfile::tempdir().unwrap();
     let sc = root().join("scenarios/coaster-brake-run.yaml");
-    let o = run(&["run", sc.to_str().unwrap(), "--case", "full", "--profile", "prof", "--dt", "0.01"], tmp.path());
+    let o = run(
+        &[
+            "run",
+            sc.to_str().unwrap(),
+            "--case",
+            "full",
+            "--profile",
+            "prof",
+            "--dt",
+            "0.01",
+        ],
+        tmp.path(),
+    );
     assert!(o.status.success(), "{}", text(&o).1);
     let csv_text = std::fs::read_to_string(tmp.path().join("prof/full.csv")).unwrap();
     let first = csv_text.lines().next().unwrap();
-    assert_eq!(first, "t_s,s_m,v_m_s,a_m_s2,decel_g,brake_force_n,gravity_force_n,resistance_force_n,overlap_m");
+    assert_eq!(
+        first,
+        "t_s,s_m,v_m_s,a_m_s2,decel_g,brake_force_n,gravity_force_n,resistance_force_n,overlap_m"
+    );
     assert!(csv_text.lines().count() > 100);
     // No temporary files are left behind.
-    let names: Vec<_> = std::fs::read_dir(tmp.path().join("prof")).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let names: Vec<_> = std::fs::read_dir(tmp.path().join("prof"))
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(names.len(), 1, "{names:?}");
 }
 
@@ -147,7 +216,11 @@ fn bad_input(yaml: &str, expect_in_message: &[&str]) {
     for cmd in ["curve", "run"] {
         let o = run(&[cmd, f.to_str().unwrap()], tmp.path());
         let (_, err) = text(&o);
-        assert_eq!(o.status.code(), Some(2), "{cmd}: expected exit 2, stderr: {err}");
+        assert_eq!(
+            o.status.code(),
+            Some(2),
+            "{cmd}: expected exit 2, stderr: {err}"
+        );
         assert!(!err.contains("panicked"), "{err}");
         assert!(err.contains("bad.yaml"), "the file is named: {err}");
         for e in expect_in_message {
@@ -158,21 +231,60 @@ fn bad_input(yaml: &str, expect_in_message: &[&str]) {
 
 #[test]
 fn bad_inputs_exit_2_and_name_the_field() {
-    bad_input(&base().replace("    clearance: 5 mm", "    clerance: 5 mm"), &["sections[0]", "clerance", ":21:"]);
-    bad_input(&base().replace("    clearance: 5 mm\n", ""), &["sections[0]", "clearance"]);
-    bad_input(&base().replace("clearance: 5 mm", "clearance: 5 km/h"), &["sections[0].clearance", "speed", "length"]);
-    bad_input(&base().replace("clearance: 5 mm", "clearance: .nan"), &["sections[0].clearance"]);
-    bad_input(&base().replace("thickness: 8 mm", "thickness: -8 mm"), &["vehicle.fins[0].thickness"]);
-    bad_input(&base().replace("mass: 2000 kg", "mass: 0 kg"), &["vehicle.mass"]);
-    bad_input(&base().replace("magnet_fill: 0.9", "magnet_fill: 1.2"), &["sections[0].magnet_fill"]);
-    bad_input(&base().replace("remanence: 1.2 T", "remanence: 2.0 T"), &["sections[0].remanence"]);
-    bad_input(&base().replace("clearance: 5 mm", "clearance: 0 mm"), &["sections[0].clearance"]);
-    bad_input(&base().replace("material: copper-c11000", "material: unobtainium"), &["vehicle.fins[0].material", "unobtainium"]);
+    bad_input(
+        &base().replace("    clearance: 5 mm", "    clerance: 5 mm"),
+        &["sections[0]", "clerance", ":21:"],
+    );
+    bad_input(
+        &base().replace("    clearance: 5 mm\n", ""),
+        &["sections[0]", "clearance"],
+    );
+    bad_input(
+        &base().replace("clearance: 5 mm", "clearance: 5 km/h"),
+        &["sections[0].clearance", "speed", "length"],
+    );
+    bad_input(
+        &base().replace("clearance: 5 mm", "clearance: .nan"),
+        &["sections[0].clearance"],
+    );
+    bad_input(
+        &base().replace("thickness: 8 mm", "thickness: -8 mm"),
+        &["vehicle.fins[0].thickness"],
+    );
+    bad_input(
+        &base().replace("mass: 2000 kg", "mass: 0 kg"),
+        &["vehicle.mass"],
+    );
+    bad_input(
+        &base().replace("magnet_fill: 0.9", "magnet_fill: 1.2"),
+        &["sections[0].magnet_fill"],
+    );
+    bad_input(
+        &base().replace("remanence: 1.2 T", "remanence: 2.0 T"),
+        &["sections[0].remanence"],
+    );
+    bad_input(
+        &base().replace("clearance: 5 mm", "clearance: 0 mm"),
+        &["sections[0].clearance"],
+    );
+    bad_input(
+        &base().replace("material: copper-c11000", "material: unobtainium"),
+        &["vehicle.fins[0].material", "unobtainium"],
+    );
     bad_input(&(base() + "  - { name: S1, start: 20 m, length: 1 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9, remanence: 1.2 T, clearance: 5 mm, pole_height: 180 mm }\n"), &["duplicate", "S1"]);
-    bad_input(&base().replace("    pole_height: 180 mm", "    pole_height: 180 mm\n    repeat: { count: 3, pitch: 1.0 m }"), &["sections[0].repeat.pitch", "overlap"]);
+    bad_input(
+        &base().replace(
+            "    pole_height: 180 mm",
+            "    pole_height: 180 mm\n    repeat: { count: 3, pitch: 1.0 m }",
+        ),
+        &["sections[0].repeat.pitch", "overlap"],
+    );
     bad_input("name: [unclosed\n", &["bad.yaml"]);
     bad_input("", &["bad.yaml"]);
-    bad_input(&base().replace("name: base", "name: base\nunknown_key: 3"), &["unknown_key"]);
+    bad_input(
+        &base().replace("name: base", "name: base\nunknown_key: 3"),
+        &["unknown_key"],
+    );
 }
 
 #[test]
@@ -182,7 +294,10 @@ fn missing_file_and_bad_options() {
     assert_eq!(o.status.code(), Some(2));
     assert!(text(&o).1.contains("no-such-file.yaml"));
     let sc = root().join("scenarios/coaster-brake-run.yaml");
-    let o = run(&["curve", sc.to_str().unwrap(), "--speeds", "3:1:1"], tmp.path());
+    let o = run(
+        &["curve", sc.to_str().unwrap(), "--speeds", "3:1:1"],
+        tmp.path(),
+    );
     assert_eq!(o.status.code(), Some(2));
     let o = run(&["run", sc.to_str().unwrap(), "--case", "nope"], tmp.path());
     assert_eq!(o.status.code(), Some(2));

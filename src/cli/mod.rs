@@ -53,7 +53,10 @@ pub fn select_cases(s: &mut Scenario, case: &Option<String>) -> Result<(), Error
     if let Some(name) = case {
         if s.case(name).is_none() {
             let names: Vec<_> = s.cases.iter().map(|c| c.name.as_str()).collect();
-            return Err(Error::Usage(format!("--case: no case named '{name}' (cases: {})", names.join(", "))));
+            return Err(Error::Usage(format!(
+                "--case: no case named '{name}' (cases: {})",
+                names.join(", ")
+            )));
         }
         s.cases.retain(|c| &c.name == name);
     }
@@ -67,24 +70,39 @@ pub fn emit(text: &str) -> Result<(), Error> {
     match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
         Ok(()) => Ok(()),
         Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
-        Err(e) => Err(Error::Output { path: "<stdout>".into(), message: e.to_string() }),
+        Err(e) => Err(Error::Output {
+            path: "<stdout>".into(),
+            message: e.to_string(),
+        }),
     }
 }
 
 /// Writes a file atomically, mapping the error.
 pub fn write_file(path: &Path, bytes: &[u8]) -> Result<(), Error> {
-    crate::report::write_atomic(path, bytes).map_err(|e| Error::Output { path: path.display().to_string(), message: e.to_string() })
+    crate::report::write_atomic(path, bytes).map_err(|e| Error::Output {
+        path: path.display().to_string(),
+        message: e.to_string(),
+    })
 }
 
 /// Creates a folder (and parents).
 pub fn make_dir(dir: &PathBuf) -> Result<(), Error> {
-    std::fs::create_dir_all(dir).map_err(|e| Error::Output { path: dir.display().to_string(), message: e.to_string() })
+    std::fs::create_dir_all(dir).map_err(|e| Error::Output {
+        path: dir.display().to_string(),
+        message: e.to_string(),
+    })
 }
 
 /// Parses a temperature option ("45", "45 °C", "318 K"); a plain number is °C on the command line.
 pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f64>, Error> {
     let Some(t) = text else { return Ok(None) };
     let t = t.trim();
-    let with_unit = if t.parse::<f64>().is_ok() { format!("{t} °C") } else { t.to_string() };
-    crate::units::from_text(crate::units::Kind::Temperature, &with_unit).map(Some).map_err(|e| Error::Usage(format!("{name}: {e}")))
+    let with_unit = if t.parse::<f64>().is_ok() {
+        format!("{t} °C")
+    } else {
+        t.to_string()
+    };
+    crate::units::from_text(crate::units::Kind::Temperature, &with_unit)
+        .map(Some)
+        .map_err(|e| Error::Usage(format!("{name}: {e}")))
 }

@@ -32,12 +32,30 @@ pub struct RunArgs {
 /// Runs every case of a scenario in parallel (both cores), results in case order.
 pub fn run_all(s: &Scenario, options: &RunOptions) -> Result<Vec<RunResult>, Error> {
     let tables = BrakeTables::build(s).map_err(|e| Error::Compute(e.to_string()))?;
-    s.cases.par_iter().map(|c| simulate_case(s, &tables, c, options).map_err(|e| Error::Compute(e.to_string()))).collect()
+    s.cases
+        .par_iter()
+        .map(|c| simulate_case(s, &tables, c, options).map_err(|e| Error::Compute(e.to_string())))
+        .collect()
 }
 
 /// The readable table of run results.
 pub fn run_table(results: &[RunResult]) -> String {
-    let mut t = Table::new(&["case", "outcome", "entry_m_s", "exit_m_s", "min_m_s", "peak_decel_g", "at_s", "at_m", "onset_g_s", "in_zone_s", "energy_kj", "residual_j", "steps", "rhs"]);
+    let mut t = Table::new(&[
+        "case",
+        "outcome",
+        "entry_m_s",
+        "exit_m_s",
+        "min_m_s",
+        "peak_decel_g",
+        "at_s",
+        "at_m",
+        "onset_g_s",
+        "in_zone_s",
+        "energy_kj",
+        "residual_j",
+        "steps",
+        "rhs",
+    ]);
     for r in results {
         t.row(vec![
             r.case.clone(),
@@ -45,7 +63,11 @@ pub fn run_table(results: &[RunResult]) -> String {
             num(r.entry_speed_m_s, 2),
             num(r.exit_speed_m_s, 2),
             num(r.min_speed_m_s, 2),
-            num(r.peak_decel_m_s2.map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2), 3),
+            num(
+                r.peak_decel_m_s2
+                    .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2),
+                3,
+            ),
             num(r.peak_decel_time_s, 3),
             num(r.peak_decel_position_m, 2),
             num(r.peak_onset_g_s, 2),
@@ -62,26 +84,48 @@ pub fn run_table(results: &[RunResult]) -> String {
 /// Runs `run`.
 pub fn execute(a: &RunArgs) -> Result<i32, Error> {
     if !(a.dt.is_finite() && a.dt >= 1e-5 && a.dt <= 1.0) {
-        return Err(Error::Usage(format!("--dt: {} s is outside 1e-5 to 1 s", a.dt)));
+        return Err(Error::Usage(format!(
+            "--dt: {} s is outside 1e-5 to 1 s",
+            a.dt
+        )));
     }
     let mut s = load(&a.scenario)?;
     let mut out = String::new();
     select_cases(&mut s, &a.case)?;
     let full = a.profile.is_some();
-    let options = RunOptions { sample_dt_s: a.dt, sampling: if full { Sampling::Full } else { Sampling::ZoneOnly }, ..RunOptions::default() };
+    let options = RunOptions {
+        sample_dt_s: a.dt,
+        sampling: if full {
+            Sampling::Full
+        } else {
+            Sampling::ZoneOnly
+        },
+        ..RunOptions::default()
+    };
     let results = run_all(&s, &options)?;
     if let Some(dir) = &a.profile {
         make_dir(dir)?;
         for r in &results {
-            let bytes = csv_out::profile_csv(&r.samples, &[]).map_err(|e| Error::Compute(e.to_string()))?;
+            let bytes =
+                csv_out::profile_csv(&r.samples, &[]).map_err(|e| Error::Compute(e.to_string()))?;
             write_file(&dir.join(format!("{}.csv", file_stem(&r.case))), &bytes)?;
         }
     }
     if a.json {
         let j = json_out::RunJson::new(&s.name, &results);
-        outln!(out, "{}", serde_json::to_string_pretty(&j).map_err(|e| Error::Compute(e.to_string()))?);
+        outln!(
+            out,
+            "{}",
+            serde_json::to_string_pretty(&j).map_err(|e| Error::Compute(e.to_string()))?
+        );
     } else {
-        outln!(out, "{} — run through the zone ({} case{})", s.name, results.len(), if results.len() == 1 { "" } else { "s" });
+        outln!(
+            out,
+            "{} — run through the zone ({} case{})",
+            s.name,
+            results.len(),
+            if results.len() == 1 { "" } else { "s" }
+        );
         outp!(out, "{}", run_table(&results));
         for r in &results {
             for w in &r.warnings {

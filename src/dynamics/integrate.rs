@@ -50,7 +50,14 @@ pub struct RunOptions {
 
 impl Default for RunOptions {
     fn default() -> Self {
-        Self { sample_dt_s: 1e-3, sampling: Sampling::ZoneOnly, thermal_feedback: true, fin_start_temps_c: None, track_fin_fields: None, tolerances: None }
+        Self {
+            sample_dt_s: 1e-3,
+            sampling: Sampling::ZoneOnly,
+            thermal_feedback: true,
+            fin_start_temps_c: None,
+            track_fin_fields: None,
+            tolerances: None,
+        }
     }
 }
 
@@ -138,17 +145,34 @@ impl Ctx {
         }
         let gravity = fr.gravity.force_n(self.mass_kg, x);
         let cos_theta = fr.gravity.cos_theta(x);
-        let resistance = -fr.dir * resistance_magnitude_n(&self.resistance, self.mass_kg, cos_theta, v, self.air_density);
+        let resistance = -fr.dir
+            * resistance_magnitude_n(
+                &self.resistance,
+                self.mass_kg,
+                cos_theta,
+                v,
+                self.air_density,
+            );
         if let Some(dy) = dy {
             dy[0] = v;
             dy[1] = (brake + gravity + resistance) / self.mass_kg;
             dy[2] = -brake * v;
             dy[3] = -resistance * v;
             for i in 0..self.n_fins {
-                dy[4 + i] = if use_vec { fin_power_vec[i] } else { fin_power[i] };
+                dy[4 + i] = if use_vec {
+                    fin_power_vec[i]
+                } else {
+                    fin_power[i]
+                };
             }
         }
-        Forces { brake_n: brake, gravity_n: gravity, resistance_n: resistance, cos_theta, overlap_m: overlap }
+        Forces {
+            brake_n: brake,
+            gravity_n: gravity,
+            resistance_n: resistance,
+            cos_theta,
+            overlap_m: overlap,
+        }
     }
 
     fn state_len(&self) -> usize {
@@ -197,7 +221,14 @@ enum Event {
     ClearBackward,
 }
 
-const EVENTS: [Event; 6] = [Event::PieceLow, Event::PieceHigh, Event::Reversal, Event::Stall, Event::ClearForward, Event::ClearBackward];
+const EVENTS: [Event; 6] = [
+    Event::PieceLow,
+    Event::PieceHigh,
+    Event::Reversal,
+    Event::Stall,
+    Event::ClearForward,
+    Event::ClearBackward,
+];
 
 struct Watch {
     lo: f64,
@@ -244,7 +275,9 @@ impl System<f64, DVector<f64>> for Rhs<'_> {
             g[i] = self.watch.g(*e, y);
         }
         let hit = match self.prev {
-            Some((t0, g0)) => (0..6).any(|i| g0[i] > 0.0 && g[i] <= 0.0).then_some((t0, t)),
+            Some((t0, g0)) => (0..6)
+                .any(|i| g0[i] > 0.0 && g[i] <= 0.0)
+                .then_some((t0, t)),
             None => None,
         };
         self.prev = Some((t, g));
@@ -269,9 +302,21 @@ fn kinks(pairs: &[ActivePair], track: &TrackModel) -> Vec<f64> {
 
 /// The piece [lo, hi] of the kink list holding x, ties broken by the direction of travel.
 fn piece(kinks: &[f64], x: f64, dir: f64) -> (f64, f64) {
-    let idx = if dir >= 0.0 { kinks.partition_point(|&k| k <= x) } else { kinks.partition_point(|&k| k < x) };
-    let lo = if idx == 0 { f64::NEG_INFINITY } else { kinks[idx - 1] };
-    let hi = if idx == kinks.len() { f64::INFINITY } else { kinks[idx] };
+    let idx = if dir >= 0.0 {
+        kinks.partition_point(|&k| k <= x)
+    } else {
+        kinks.partition_point(|&k| k < x)
+    };
+    let lo = if idx == 0 {
+        f64::NEG_INFINITY
+    } else {
+        kinks[idx - 1]
+    };
+    let hi = if idx == kinks.len() {
+        f64::INFINITY
+    } else {
+        kinks[idx]
+    };
     (lo, hi)
 }
 
@@ -291,7 +336,11 @@ fn freeze(ctx: &Ctx, track: &TrackModel, lo: f64, hi: f64, x: f64, dir: f64) -> 
             (a != 0.0 || b != 0.0).then_some((i, a, b))
         })
         .collect();
-    Frozen { pairs, gravity: track.frozen(mid, 1.0), dir }
+    Frozen {
+        pairs,
+        gravity: track.frozen(mid, 1.0),
+        dir,
+    }
 }
 
 /// Finds t in [a, b] where g crosses from > 0 to ≤ 0, to `tol` seconds (bisection with a
@@ -303,7 +352,11 @@ fn locate(mut a: f64, mut b: f64, g: impl Fn(f64) -> f64, tol: f64) -> f64 {
         if b - a <= tol {
             break;
         }
-        let mut c = if ga.is_finite() && gb.is_finite() && ga != gb { b - gb * (b - a) / (gb - ga) } else { 0.5 * (a + b) };
+        let mut c = if ga.is_finite() && gb.is_finite() && ga != gb {
+            b - gb * (b - a) / (gb - ga)
+        } else {
+            0.5 * (a + b)
+        };
         if !(c > a && c < b) {
             c = 0.5 * (a + b);
         }
@@ -328,19 +381,37 @@ fn locate(mut a: f64, mut b: f64, g: impl Fn(f64) -> f64, tol: f64) -> f64 {
 }
 
 /// Runs every case of a scenario with shared force tables.
-pub fn simulate(scenario: &Scenario, tables: &BrakeTables, options: &RunOptions) -> Result<Vec<RunResult>, DynamicsError> {
-    scenario.cases.iter().map(|c| simulate_case(scenario, tables, c, options)).collect()
+pub fn simulate(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    options: &RunOptions,
+) -> Result<Vec<RunResult>, DynamicsError> {
+    scenario
+        .cases
+        .iter()
+        .map(|c| simulate_case(scenario, tables, c, options))
+        .collect()
 }
 
 fn static_hold(ctx: &Ctx, fr: &Frozen, y: &DVector<f64>) -> bool {
     let f = ctx.eval(fr, y, None);
-    let static_res = ctx.resistance.rolling_coeff * ctx.mass_kg * G * f.cos_theta + ctx.resistance.friction_n;
+    let static_res =
+        ctx.resistance.rolling_coeff * ctx.mass_kg * G * f.cos_theta + ctx.resistance.friction_n;
     f.gravity_n.abs() <= static_res
 }
 
 /// Runs one case.
-pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, options: &RunOptions) -> Result<RunResult, DynamicsError> {
-    let track = TrackModel::new(&scenario.track.gravity, scenario.track.air_density_kg_m3, scenario.vehicle.length_m);
+pub fn simulate_case(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    options: &RunOptions,
+) -> Result<RunResult, DynamicsError> {
+    let track = TrackModel::new(
+        &scenario.track.gravity,
+        scenario.track.air_density_kg_m3,
+        scenario.vehicle.length_m,
+    );
     let pairs = active_pairs(scenario, tables, case);
     let n_fins = scenario.fins.len();
     let fin_start_c: Vec<f64> = match &options.fin_start_temps_c {
@@ -351,7 +422,13 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         .fins
         .iter()
         .map(|f| match f.mount {
-            Mount::Vehicle { .. } if options.thermal_feedback => Some(f.material.density_kg_m3 * f.material.specific_heat_j_kg_k * f.length_m * f.height_m * f.thickness_m),
+            Mount::Vehicle { .. } if options.thermal_feedback => Some(
+                f.material.density_kg_m3
+                    * f.material.specific_heat_j_kg_k
+                    * f.length_m
+                    * f.height_m
+                    * f.thickness_m,
+            ),
             _ => None,
         })
         .collect();
@@ -370,7 +447,9 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         air_density: scenario.track.air_density_kg_m3,
         n_fins,
     };
-    let (rtol, atol) = options.tolerances.unwrap_or((scenario.solver.rtol, scenario.solver.atol));
+    let (rtol, atol) = options
+        .tolerances
+        .unwrap_or((scenario.solver.rtol, scenario.solver.atol));
     let kinks = kinks(&ctx.pairs, &track);
     let pe = |m: f64, x: f64| m * G * track.mean_elevation_m(x);
 
@@ -438,7 +517,16 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         if static_hold(&ctx, &fr, &y) {
             res.outcome = Outcome::Stalled;
             res.stall_position_m = Some(y[0]);
-            finish(&mut res, &ctx, &y, t, initial_energy, pe(case.mass_kg, y[0]), &fin_start_c, scenario);
+            finish(
+                &mut res,
+                &ctx,
+                &y,
+                t,
+                initial_energy,
+                pe(case.mass_kg, y[0]),
+                &fin_start_c,
+                scenario,
+            );
             return Ok(res);
         }
     }
@@ -446,7 +534,11 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
     loop {
         pieces += 1;
         if pieces > 200_000 {
-            return Err(DynamicsError::Integration { case: case.name.clone(), t_s: t, message: "too many pieces (events in a loop)".into() });
+            return Err(DynamicsError::Integration {
+                case: case.name.clone(),
+                t_s: t,
+                message: "too many pieces (events in a loop)".into(),
+            });
         }
         let (lo, hi) = piece(&kinks, y[0], dir);
         let frozen = freeze(&ctx, &track, lo, hi, y[0], dir);
@@ -472,13 +564,42 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         for (i, e) in EVENTS.iter().enumerate() {
             g0[i] = watch.g(*e, &y);
         }
-        let rhs = Rhs { ctx: &ctx, frozen: &frozen, watch: &watch, prev: Some((t, g0)), triggered: &triggered };
+        let rhs = Rhs {
+            ctx: &ctx,
+            frozen: &frozen,
+            watch: &watch,
+            prev: Some((t, g0)),
+            triggered: &triggered,
+        };
         let mut cont = ContinuousOutputModel::default();
         let reached_end;
         let t_piece_start = t;
         if t_end - t > 1e-12 {
-            let mut solver = Dopri5::from_param(rhs, t, t_end, 0.0, y.clone(), rtol, atol, 0.9, 0.04, 0.2, 10.0, 0.5, 0.0, 1_000_000, 1000, OutputType::Continuous);
-            let stats = solver.integrate_with_continuous_output_model(&mut cont).map_err(|e| DynamicsError::Integration { case: case.name.clone(), t_s: t, message: e.to_string() })?;
+            let mut solver = Dopri5::from_param(
+                rhs,
+                t,
+                t_end,
+                0.0,
+                y.clone(),
+                rtol,
+                atol,
+                0.9,
+                0.04,
+                0.2,
+                10.0,
+                0.5,
+                0.0,
+                1_000_000,
+                1000,
+                OutputType::Continuous,
+            );
+            let stats = solver
+                .integrate_with_continuous_output_model(&mut cont)
+                .map_err(|e| DynamicsError::Integration {
+                    case: case.name.clone(),
+                    t_s: t,
+                    message: e.to_string(),
+                })?;
             res.steps += u64::from(stats.accepted_steps);
             res.rhs_evaluations += u64::from(stats.num_eval);
             reached_end = triggered.get().is_none();
@@ -489,12 +610,21 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         let (t_stop, event) = match triggered.get() {
             Some((a, b)) => {
                 // The step's start may be the piece start (the first step): check from there too.
-                let g_at = |tt: f64, e: Event| cont.evaluate(tt).map(|yy| watch.g(e, &yy)).unwrap_or(f64::NAN);
+                let g_at = |tt: f64, e: Event| {
+                    cont.evaluate(tt)
+                        .map(|yy| watch.g(e, &yy))
+                        .unwrap_or(f64::NAN)
+                };
                 let mut best: Option<(f64, Event)> = None;
                 for e in EVENTS {
                     let (ga, gb) = (g_at(a, e), g_at(b, e));
                     if ga > 0.0 && gb <= 0.0 {
-                        let te = locate(a, b, |tt| g_at(tt, e), 1e-9_f64.max(4.0 * f64::EPSILON * b.abs()));
+                        let te = locate(
+                            a,
+                            b,
+                            |tt| g_at(tt, e),
+                            1e-9_f64.max(4.0 * f64::EPSILON * b.abs()),
+                        );
                         if best.is_none_or(|(tb, _)| te < tb) {
                             best = Some((te, e));
                         }
@@ -507,7 +637,11 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
             }
             None => (t_end, None),
         };
-        let y_stop = if t_stop > t_piece_start { cont.evaluate(t_stop).unwrap_or_else(|| y.clone()) } else { y.clone() };
+        let y_stop = if t_stop > t_piece_start {
+            cont.evaluate(t_stop).unwrap_or_else(|| y.clone())
+        } else {
+            y.clone()
+        };
 
         // Samples of this piece.
         let in_zone = entered && !exited;
@@ -518,7 +652,11 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
                 break;
             }
             if ts >= t_piece_start {
-                let ys = if ts == t_piece_start { y.clone() } else { cont.evaluate(ts).unwrap_or_else(|| y_stop.clone()) };
+                let ys = if ts == t_piece_start {
+                    y.clone()
+                } else {
+                    cont.evaluate(ts).unwrap_or_else(|| y_stop.clone())
+                };
                 if keep {
                     let s = sample(&ctx, &frozen, ts, &ys, false);
                     record(&mut res, &s, in_zone);
@@ -537,7 +675,13 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
         if keep {
             res.samples.push(s_end);
         }
-        if in_zone && !measured_warned && ctx.pairs.iter().enumerate().any(|(i, p)| frozen.pairs.iter().any(|q| q.0 == i) && !p.covers(y_stop[1], ctx.fin_temp(p.spec.fin, &y_stop))) {
+        if in_zone
+            && !measured_warned
+            && ctx.pairs.iter().enumerate().any(|(i, p)| {
+                frozen.pairs.iter().any(|q| q.0 == i)
+                    && !p.covers(y_stop[1], ctx.fin_temp(p.spec.fin, &y_stop))
+            })
+        {
             measured_warned = true;
             res.warnings.push(format!("the run left the speed range of a measured force curve at {:.3} m/s (held at its last value)", y_stop[1].abs()));
         }
@@ -550,7 +694,8 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
                 if creep_deadline.is_some_and(|d| t >= d - 1e-9) && t < t_limit - 1e-9 {
                     res.outcome = Outcome::Stalled;
                     res.stall_position_m = Some(y[0]);
-                    res.warnings.push("creeping below the stall speed for 10 s: counted as a stall".into());
+                    res.warnings
+                        .push("creeping below the stall speed for 10 s: counted as a stall".into());
                 } else {
                     res.outcome = Outcome::TimeLimit;
                 }
@@ -569,7 +714,10 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
                 }
                 res.reversed = true;
                 dir = -dir;
-                if !entered && ((dir < 0.0 && y[0] < scenario.zone_start_m) || (dir > 0.0 && y[0] - ctx.vehicle_len_m > scenario.zone_end_m)) {
+                if !entered
+                    && ((dir < 0.0 && y[0] < scenario.zone_start_m)
+                        || (dir > 0.0 && y[0] - ctx.vehicle_len_m > scenario.zone_end_m))
+                {
                     // Turned back before reaching the brakes.
                     res.outcome = Outcome::RolledBack;
                     break;
@@ -596,19 +744,41 @@ pub fn simulate_case(scenario: &Scenario, tables: &BrakeTables, case: &Case, opt
                 }
                 exited = true;
                 res.exit_speed_m_s = Some(y[1]);
-                res.outcome = if (forward && initial_dir > 0.0) || (!forward && initial_dir < 0.0) { Outcome::Cleared } else { Outcome::RolledBack };
+                res.outcome = if (forward && initial_dir > 0.0) || (!forward && initial_dir < 0.0) {
+                    Outcome::Cleared
+                } else {
+                    Outcome::RolledBack
+                };
                 break;
             }
         }
     }
     let _ = exited;
     let pe_end = pe(case.mass_kg, y[0]);
-    finish(&mut res, &ctx, &y, t, initial_energy, pe_end, &fin_start_c, scenario);
+    finish(
+        &mut res,
+        &ctx,
+        &y,
+        t,
+        initial_energy,
+        pe_end,
+        &fin_start_c,
+        scenario,
+    );
     Ok(res)
 }
 
 #[allow(clippy::too_many_arguments)]
-fn finish(res: &mut RunResult, ctx: &Ctx, y: &DVector<f64>, t: f64, initial_energy: f64, pe_end: f64, fin_start_c: &[f64], scenario: &Scenario) {
+fn finish(
+    res: &mut RunResult,
+    ctx: &Ctx,
+    y: &DVector<f64>,
+    t: f64,
+    initial_energy: f64,
+    pe_end: f64,
+    fin_start_c: &[f64],
+    scenario: &Scenario,
+) {
     res.end_time_s = t;
     res.braking_energy_j = y[2];
     res.resistance_energy_j = y[3];
@@ -621,7 +791,12 @@ fn finish(res: &mut RunResult, ctx: &Ctx, y: &DVector<f64>, t: f64, initial_ener
         .fins
         .iter()
         .enumerate()
-        .map(|(i, f)| FinHeat { fin: f.name.clone(), energy_j: y[4 + i], start_temp_c: fin_start_c[i], end_temp_c: ctx.fin_temp(i, y) })
+        .map(|(i, f)| FinHeat {
+            fin: f.name.clone(),
+            energy_j: y[4 + i],
+            start_temp_c: fin_start_c[i],
+            end_temp_c: ctx.fin_temp(i, y),
+        })
         .collect();
 }
 

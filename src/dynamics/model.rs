@@ -65,7 +65,11 @@ impl PairSpec {
     /// Front positions where the overlap has a kink.
     pub fn kinks(&self) -> [f64; 4] {
         let o = self.vehicle_offset_m;
-        let (s0, s1, l) = (self.track_start_m, self.track_start_m + self.track_len_m, self.vehicle_len_m);
+        let (s0, s1, l) = (
+            self.track_start_m,
+            self.track_start_m + self.track_len_m,
+            self.vehicle_len_m,
+        );
         [s0 + o, s1 + o, s0 + o + l, s1 + o + l]
     }
 
@@ -74,7 +78,11 @@ impl PairSpec {
         let u = x_mid - self.vehicle_offset_m;
         let s1 = self.track_start_m + self.track_len_m;
         let (hi, dhi) = if u < s1 { (u, 1.0) } else { (s1, 0.0) };
-        let (lo, dlo) = if u - self.vehicle_len_m > self.track_start_m { (u - self.vehicle_len_m, 1.0) } else { (self.track_start_m, 0.0) };
+        let (lo, dlo) = if u - self.vehicle_len_m > self.track_start_m {
+            (u - self.vehicle_len_m, 1.0)
+        } else {
+            (self.track_start_m, 0.0)
+        };
         if hi - lo <= 0.0 {
             return (0.0, 0.0);
         }
@@ -105,31 +113,67 @@ pub fn geometry(fin: &Fin, design: &crate::scenario::MagnetDesign) -> BrakeGeome
 
 /// The layer model of a fin in a section (20 °C).
 pub fn drag_model(fin: &Fin, section: &Section) -> Result<Option<DragModel>, DynamicsError> {
-    let Some(design) = section.design() else { return Ok(None) };
-    DragModel::new(&geometry(fin, design), design.remanence_t, fin.material.conductivity_s_m)
-        .map(Some)
-        .map_err(|e| DynamicsError::Physics { fin: fin.name.clone(), section: section.name.clone(), message: e.to_string() })
+    let Some(design) = section.design() else {
+        return Ok(None);
+    };
+    DragModel::new(
+        &geometry(fin, design),
+        design.remanence_t,
+        fin.material.conductivity_s_m,
+    )
+    .map(Some)
+    .map_err(|e| DynamicsError::Physics {
+        fin: fin.name.clone(),
+        section: section.name.clone(),
+        message: e.to_string(),
+    })
 }
 
 /// A generous upper bound on the speeds any case of the scenario reaches, m/s.
 pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     use crate::constants::STANDARD_GRAVITY_M_S2 as G;
-    let track = super::track::TrackModel::new(&scenario.track.gravity, scenario.track.air_density_kg_m3, scenario.vehicle.length_m);
-    let top = scenario.cases.iter().map(|c| c.start_speed_m_s.abs()).fold(0.0, f64::max);
+    let track = super::track::TrackModel::new(
+        &scenario.track.gravity,
+        scenario.track.air_density_kg_m3,
+        scenario.vehicle.length_m,
+    );
+    let top = scenario
+        .cases
+        .iter()
+        .map(|c| c.start_speed_m_s.abs())
+        .fold(0.0, f64::max);
     // Largest drop from any start to the zone end.
     let drop = scenario
         .cases
         .iter()
-        .map(|c| track.elevation_m(c.start_position_m) - track.elevation_m(scenario.zone_end_m).min(track.elevation_m(scenario.zone_start_m)))
+        .map(|c| {
+            track.elevation_m(c.start_position_m)
+                - track
+                    .elevation_m(scenario.zone_end_m)
+                    .min(track.elevation_m(scenario.zone_start_m))
+        })
         .fold(0.0, f64::max)
         .max(0.0);
     1.25 * (top * top + 2.0 * G * drop).sqrt() + 5.0
 }
 
 impl BrakeTables {
-    /// Builds every pair's force law for the scenario.
+    /// Builds every pair's force law for the scenario. Pairs with the same fin design and magnet
+    /// design share one table; the table reaches the top speed times the largest conductivity
+    /// ratio of any case (a cold fin reads the table at v·σ(T)/σ20).
     pub fn build(scenario: &Scenario) -> Result<Self, DynamicsError> {
-        let vmax = speed_bound_m_s(scenario);
+        let max_ratio = scenario
+            .cases
+            .iter()
+            .flat_map(|c| {
+                scenario
+                    .fins
+                    .iter()
+                    .map(move |f| 1.0 / f.material.resistivity_ratio(c.fin_temp_c))
+            })
+            .fold(1.0, f64::max);
+        let vmax = speed_bound_m_s(scenario) * max_ratio;
+        let mut cache: Vec<(Vec<u64>, Arc<ForceTable>, Arc<DragModel>)> = Vec::new();
         let mut pairs = Vec::new();
         for (fi, fin) in scenario.fins.iter().enumerate() {
             for (si, sec) in scenario.sections.iter().enumerate() {
@@ -138,22 +182,85 @@ impl BrakeTables {
                 }
                 let law = match &sec.force {
                     ForceSource::Model(design) => {
-                        let model = drag_model(fin, sec)?.ok_or_else(|| DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: "no design".into() })?;
-                        let table = ForceTable::build(&model, vmax);
-                        let _ = design;
-                        PairLaw::Table { active_height_m: model.geometry().active_height_m(), table: Arc::new(table), model: Arc::new(model) }
+                        let g = geometry(fin, design);
+                        let key: Vec<u64> = [
+                            g.pole_pitch_m,
+                            g.magnet_thickness_m,
+                            g.magnet_fill,
+                            g.clearance_m,
+                            g.fin_thickness_m,
+                            g.fin_height_m,
+                            g.pole_height_m,
+                            design.remanence_t,
+                            fin.material.conductivity_s_m,
+                        ]
+                        .iter()
+                        .map(|x| x.to_bits())
+                        .collect();
+                        let (table, model) = match cache.iter().find(|c| c.0 == key) {
+                            Some(c) => (c.1.clone(), c.2.clone()),
+                            None => {
+                                let model = Arc::new(drag_model(fin, sec)?.ok_or_else(|| {
+                                    DynamicsError::Physics {
+                                        fin: fin.name.clone(),
+                                        section: sec.name.clone(),
+                                        message: "no design".into(),
+                                    }
+                                })?);
+                                let table = Arc::new(ForceTable::build(&model, vmax));
+                                cache.push((key, table.clone(), model.clone()));
+                                (table, model)
+                            }
+                        };
+                        PairLaw::Table {
+                            active_height_m: model.geometry().active_height_m(),
+                            table,
+                            model,
+                        }
                     }
                     ForceSource::Measured(m) => {
-                        let curve = MeasuredCurve::new(&m.points).map_err(|e| DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: e.to_string() })?;
-                        PairLaw::Measured { curve: Arc::new(curve), fin_temp_c: m.fin_temp_c, magnet_temp_c: m.magnet_temp_c }
+                        let curve =
+                            MeasuredCurve::new(&m.points).map_err(|e| DynamicsError::Physics {
+                                fin: fin.name.clone(),
+                                section: sec.name.clone(),
+                                message: e.to_string(),
+                            })?;
+                        PairLaw::Measured {
+                            curve: Arc::new(curve),
+                            fin_temp_c: m.fin_temp_c,
+                            magnet_temp_c: m.magnet_temp_c,
+                        }
                     }
                 };
-                let (vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m) = match (scenario.arrangement, fin.mount, sec.mount) {
-                    (Arrangement::FinsOnVehicle, Mount::Vehicle { offset_m }, Mount::Track { start_m }) => (offset_m, fin.length_m, start_m, sec.length_m),
-                    (Arrangement::MagnetsOnVehicle, Mount::Track { start_m }, Mount::Vehicle { offset_m }) => (offset_m, sec.length_m, start_m, fin.length_m),
-                    _ => return Err(DynamicsError::Physics { fin: fin.name.clone(), section: sec.name.clone(), message: "inconsistent mounting".into() }),
-                };
-                pairs.push(PairSpec { fin: fi, section: si, vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m, law });
+                let (vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m) =
+                    match (scenario.arrangement, fin.mount, sec.mount) {
+                        (
+                            Arrangement::FinsOnVehicle,
+                            Mount::Vehicle { offset_m },
+                            Mount::Track { start_m },
+                        ) => (offset_m, fin.length_m, start_m, sec.length_m),
+                        (
+                            Arrangement::MagnetsOnVehicle,
+                            Mount::Track { start_m },
+                            Mount::Vehicle { offset_m },
+                        ) => (offset_m, sec.length_m, start_m, fin.length_m),
+                        _ => {
+                            return Err(DynamicsError::Physics {
+                                fin: fin.name.clone(),
+                                section: sec.name.clone(),
+                                message: "inconsistent mounting".into(),
+                            })
+                        }
+                    };
+                pairs.push(PairSpec {
+                    fin: fi,
+                    section: si,
+                    vehicle_offset_m,
+                    vehicle_len_m,
+                    track_start_m,
+                    track_len_m,
+                    law,
+                });
             }
         }
         Ok(Self { pairs })
@@ -178,11 +285,23 @@ impl ActivePair {
     #[inline]
     pub fn force_per_m_n(&self, speed_m_s: f64, fin_temp_c: f64) -> f64 {
         // σ(T)/σ_ref = ρ_ref/ρ(T).
-        let rho_ratio = (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
+        let rho_ratio =
+            (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
         let sigma_ratio = self.reference_resistivity_ratio / rho_ratio;
         match &self.spec.law {
-            PairLaw::Table { table, active_height_m, .. } => table.force_per_area_scaled_pa(speed_m_s, sigma_ratio, self.remanence_ratio) * active_height_m,
-            PairLaw::Measured { curve, .. } => self.remanence_ratio * self.remanence_ratio * curve.force_per_m_n(speed_m_s * sigma_ratio),
+            PairLaw::Table {
+                table,
+                active_height_m,
+                ..
+            } => {
+                table.force_per_area_scaled_pa(speed_m_s, sigma_ratio, self.remanence_ratio)
+                    * active_height_m
+            }
+            PairLaw::Measured { curve, .. } => {
+                self.remanence_ratio
+                    * self.remanence_ratio
+                    * curve.force_per_m_n(speed_m_s * sigma_ratio)
+            }
         }
     }
 
@@ -191,7 +310,8 @@ impl ActivePair {
         match &self.spec.law {
             PairLaw::Table { .. } => true,
             PairLaw::Measured { curve, .. } => {
-                let rho_ratio = (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
+                let rho_ratio =
+                    (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
                 curve.covers(speed_m_s.abs() * self.reference_resistivity_ratio / rho_ratio)
             }
         }
@@ -200,7 +320,8 @@ impl ActivePair {
 
 /// Remanence ratio Br(T)/Br(T_ref) for a reversible coefficient β: (1 + β(T − 20))/(1 + β(T_ref − 20)).
 pub fn remanence_ratio(beta_per_k: f64, temp_c: f64, reference_c: f64) -> f64 {
-    let r = (1.0 + beta_per_k * (temp_c - REFERENCE_TEMPERATURE_C)) / (1.0 + beta_per_k * (reference_c - REFERENCE_TEMPERATURE_C));
+    let r = (1.0 + beta_per_k * (temp_c - REFERENCE_TEMPERATURE_C))
+        / (1.0 + beta_per_k * (reference_c - REFERENCE_TEMPERATURE_C));
     r.max(0.0)
 }
 
@@ -216,10 +337,22 @@ pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> V
             let alpha = fin.material.temp_coeff_per_k;
             let (mag_ref, fin_ref_rho) = match &p.law {
                 PairLaw::Table { .. } => (REFERENCE_TEMPERATURE_C, 1.0),
-                PairLaw::Measured { fin_temp_c, magnet_temp_c, .. } => (*magnet_temp_c, (1.0 + alpha * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05)),
+                PairLaw::Measured {
+                    fin_temp_c,
+                    magnet_temp_c,
+                    ..
+                } => (
+                    *magnet_temp_c,
+                    (1.0 + alpha * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05),
+                ),
             };
             let br = remanence_ratio(sec.remanence_temp_coeff_per_k, case.magnet_temp_c, mag_ref);
-            ActivePair { spec: p.clone(), remanence_ratio: br, fin_alpha_per_k: alpha, reference_resistivity_ratio: fin_ref_rho }
+            ActivePair {
+                spec: p.clone(),
+                remanence_ratio: br,
+                fin_alpha_per_k: alpha,
+                reference_resistivity_ratio: fin_ref_rho,
+            }
         })
         .collect()
 }
@@ -236,7 +369,11 @@ mod tests {
             vehicle_len_m: 2.0,
             track_start_m: 10.0,
             track_len_m: 3.0,
-            law: PairLaw::Measured { curve: Arc::new(MeasuredCurve::new(&[(0.0, 0.0), (10.0, 100.0)]).unwrap()), fin_temp_c: 20.0, magnet_temp_c: 20.0 },
+            law: PairLaw::Measured {
+                curve: Arc::new(MeasuredCurve::new(&[(0.0, 0.0), (10.0, 100.0)]).unwrap()),
+                fin_temp_c: 20.0,
+                magnet_temp_c: 20.0,
+            },
         }
     }
 
@@ -255,7 +392,9 @@ mod tests {
         let n = 200_000;
         let (a, b) = (10.0, 18.0);
         let h = (b - a) / n as f64;
-        let area: f64 = (0..n).map(|i| p.overlap_m(a + (i as f64 + 0.5) * h) * h).sum();
+        let area: f64 = (0..n)
+            .map(|i| p.overlap_m(a + (i as f64 + 0.5) * h) * h)
+            .sum();
         assert!((area - 6.0).abs() < 1e-6, "{area}");
     }
 
@@ -265,7 +404,10 @@ mod tests {
         for x in [11.5, 13.5, 15.0, 16.5, 20.0, 5.0] {
             let (a, b) = p.linear_overlap(x);
             assert!((a + b * x - p.overlap_m(x)).abs() < 1e-12, "x = {x}");
-            assert!((a + b * (x + 0.1) - p.overlap_m(x + 0.1)).abs() < 1e-12, "x = {x}");
+            assert!(
+                (a + b * (x + 0.1) - p.overlap_m(x + 0.1)).abs() < 1e-12,
+                "x = {x}"
+            );
         }
     }
 

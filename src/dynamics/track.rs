@@ -40,7 +40,11 @@ impl TrackModel {
             Gravity::Grade { slope } => vec![(0.0, 0.0), (1.0, *slope)],
             Gravity::Profile { points } => points.clone(),
         };
-        Self { points, length_m, air_density_kg_m3 }
+        Self {
+            points,
+            length_m,
+            air_density_kg_m3,
+        }
     }
 
     /// The linear piece that holds just ahead of `s` in direction `dir` (±1).
@@ -53,7 +57,11 @@ impl TrackModel {
             i += 1;
         }
         let (a, b) = (p[i], p[i + 1]);
-        Piece { s0: a.0, z0: a.1, slope: (b.1 - a.1) / (b.0 - a.0) }
+        Piece {
+            s0: a.0,
+            z0: a.1,
+            slope: (b.1 - a.1) / (b.0 - a.0),
+        }
     }
 
     /// Elevation at `s`, m.
@@ -64,9 +72,18 @@ impl TrackModel {
     /// ∫ z ds from 0 to s along the profile (exact for piecewise-linear z).
     fn z_integral(&self, s: f64) -> f64 {
         // Integrate piece by piece between 0 and s, signed.
-        let (lo, hi, sign) = if s >= 0.0 { (0.0, s, 1.0) } else { (s, 0.0, -1.0) };
+        let (lo, hi, sign) = if s >= 0.0 {
+            (0.0, s, 1.0)
+        } else {
+            (s, 0.0, -1.0)
+        };
         let mut knots: Vec<f64> = vec![lo];
-        knots.extend(self.points.iter().map(|p| p.0).filter(|&k| k > lo && k < hi));
+        knots.extend(
+            self.points
+                .iter()
+                .map(|p| p.0)
+                .filter(|&k| k > lo && k < hi),
+        );
         knots.push(hi);
         let mut total = 0.0;
         for w in knots.windows(2) {
@@ -89,7 +106,10 @@ impl TrackModel {
             return vec![];
         }
         let inner = &self.points[1..self.points.len() - 1];
-        inner.iter().flat_map(|p| [p.0, p.0 + self.length_m]).collect()
+        inner
+            .iter()
+            .flat_map(|p| [p.0, p.0 + self.length_m])
+            .collect()
     }
 
     /// The gravity law frozen on the pieces that hold around `front_m`, moving in `dir`.
@@ -113,7 +133,8 @@ pub struct FrozenGravity {
 impl FrozenGravity {
     /// Mean dz/ds under the vehicle.
     pub fn mean_slope(&self, front_m: f64) -> f64 {
-        ((self.front.z(front_m) - self.rear.z(front_m - self.length_m)) / self.length_m).clamp(-1.0, 1.0)
+        ((self.front.z(front_m) - self.rear.z(front_m - self.length_m)) / self.length_m)
+            .clamp(-1.0, 1.0)
     }
 
     /// Along-track gravity force on mass `mass_kg`, N (positive forwards).
@@ -130,7 +151,13 @@ impl FrozenGravity {
 
 /// Resistance force magnitude (always against the motion), N: rolling μ·m·g·cos θ, a constant
 /// friction and aerodynamic drag ½·ρ·Cd·A·v².
-pub fn resistance_magnitude_n(r: &Resistance, mass_kg: f64, cos_theta: f64, speed_m_s: f64, air_density_kg_m3: f64) -> f64 {
+pub fn resistance_magnitude_n(
+    r: &Resistance,
+    mass_kg: f64,
+    cos_theta: f64,
+    speed_m_s: f64,
+    air_density_kg_m3: f64,
+) -> f64 {
     r.rolling_coeff * mass_kg * STANDARD_GRAVITY_M_S2 * cos_theta
         + r.friction_n
         + 0.5 * air_density_kg_m3 * r.drag_area_m2 * speed_m_s * speed_m_s
@@ -146,7 +173,11 @@ mod tests {
         let t = TrackModel::new(&Gravity::Grade { slope: -0.5 }, 1.2, 3.0);
         let g = t.frozen(10.0, 1.0);
         // m·g·sin θ along a 30° fall (sin 30° = 0.5).
-        assert_relative_eq!(g.force_n(100.0, 10.0), 100.0 * 9.80665 * 0.5, max_relative = 1e-14);
+        assert_relative_eq!(
+            g.force_n(100.0, 10.0),
+            100.0 * 9.80665 * 0.5,
+            max_relative = 1e-14
+        );
         assert_relative_eq!(g.cos_theta(10.0), 0.75f64.sqrt(), max_relative = 1e-14);
         assert!(t.kinks().is_empty());
     }
@@ -154,10 +185,24 @@ mod tests {
     #[test]
     fn mean_elevation_on_a_profile() {
         // A 2 m vehicle fully on the 1-in-2 rise from s = 10 to 20 (z = 0.5·(s − 10)).
-        let t = TrackModel::new(&Gravity::Profile { points: vec![(0.0, 0.0), (10.0, 0.0), (20.0, 5.0), (30.0, 5.0)] }, 1.2, 2.0);
-        assert_relative_eq!(t.mean_elevation_m(15.0), 0.5 * (14.0 - 10.0), max_relative = 1e-12);
+        let t = TrackModel::new(
+            &Gravity::Profile {
+                points: vec![(0.0, 0.0), (10.0, 0.0), (20.0, 5.0), (30.0, 5.0)],
+            },
+            1.2,
+            2.0,
+        );
+        assert_relative_eq!(
+            t.mean_elevation_m(15.0),
+            0.5 * (14.0 - 10.0),
+            max_relative = 1e-12
+        );
         // Straddling the crest at 20: front at 21 → z from 19..20 rising (mean 4.75), 20..21 flat (5).
-        assert_relative_eq!(t.mean_elevation_m(21.0), (4.75 + 5.0) / 2.0, max_relative = 1e-12);
+        assert_relative_eq!(
+            t.mean_elevation_m(21.0),
+            (4.75 + 5.0) / 2.0,
+            max_relative = 1e-12
+        );
         assert_eq!(t.kinks(), vec![10.0, 12.0, 20.0, 22.0]);
         // The force is minus the derivative of the potential energy.
         let m = 500.0;

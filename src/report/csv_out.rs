@@ -4,10 +4,28 @@ use crate::curve::PairCurve;
 use crate::dynamics::Sample;
 
 /// The curve CSV header.
-pub const CURVE_HEADER: [&str; 7] = ["section", "fin", "speed_m_s", "force_per_area_pa", "force_per_area_fundamental_pa", "force_per_m_n", "force_full_overlap_n"];
+pub const CURVE_HEADER: [&str; 7] = [
+    "section",
+    "fin",
+    "speed_m_s",
+    "force_per_area_pa",
+    "force_per_area_fundamental_pa",
+    "force_per_m_n",
+    "force_full_overlap_n",
+];
 
 /// The run profile CSV header.
-pub const PROFILE_HEADER: [&str; 9] = ["t_s", "s_m", "v_m_s", "a_m_s2", "decel_g", "brake_force_n", "gravity_force_n", "resistance_force_n", "overlap_m"];
+pub const PROFILE_HEADER: [&str; 9] = [
+    "t_s",
+    "s_m",
+    "v_m_s",
+    "a_m_s2",
+    "decel_g",
+    "brake_force_n",
+    "gravity_force_n",
+    "resistance_force_n",
+    "overlap_m",
+];
 
 fn opt(x: Option<f64>) -> String {
     x.map(|v| format!("{v}")).unwrap_or_default()

@@ -10,7 +10,10 @@ pub struct Table {
 impl Table {
     /// A table with these column titles.
     pub fn new<S: AsRef<str>>(header: &[S]) -> Self {
-        Self { header: header.iter().map(|s| s.as_ref().to_string()).collect(), rows: vec![] }
+        Self {
+            header: header.iter().map(|s| s.as_ref().to_string()).collect(),
+            rows: vec![],
+        }
     }
 
     /// Adds a row.
@@ -43,7 +46,12 @@ impl Table {
             out.push_str(line.join("  ").trim_end());
             out.push('\n');
             if k == 0 {
-                out.push_str(&w.iter().map(|&x| "-".repeat(x)).collect::<Vec<_>>().join("  "));
+                out.push_str(
+                    &w.iter()
+                        .map(|&x| "-".repeat(x))
+                        .collect::<Vec<_>>()
+                        .join("  "),
+                );
                 out.push('\n');
             }
         }

@@ -36,10 +36,34 @@ pub fn corners(
 ) -> Vec<Case> {
     type Apply = fn(&mut Case, f64);
     let dims: Vec<((f64, f64), [&str; 2], Apply)> = [
-        mass_kg.map(|r| (r, ["empty", "full"], (|c: &mut Case, x| c.mass_kg = x) as Apply)),
-        fin_temp_c.map(|r| (r, ["cold-fin", "hot-fin"], (|c: &mut Case, x| c.fin_temp_c = x) as Apply)),
-        magnet_temp_c.map(|r| (r, ["cold-magnet", "hot-magnet"], (|c: &mut Case, x| c.magnet_temp_c = x) as Apply)),
-        start_speed_m_s.map(|r| (r, ["slow", "fast"], (|c: &mut Case, x| c.start_speed_m_s = x) as Apply)),
+        mass_kg.map(|r| {
+            (
+                r,
+                ["empty", "full"],
+                (|c: &mut Case, x| c.mass_kg = x) as Apply,
+            )
+        }),
+        fin_temp_c.map(|r| {
+            (
+                r,
+                ["cold-fin", "hot-fin"],
+                (|c: &mut Case, x| c.fin_temp_c = x) as Apply,
+            )
+        }),
+        magnet_temp_c.map(|r| {
+            (
+                r,
+                ["cold-magnet", "hot-magnet"],
+                (|c: &mut Case, x| c.magnet_temp_c = x) as Apply,
+            )
+        }),
+        start_speed_m_s.map(|r| {
+            (
+                r,
+                ["slow", "fast"],
+                (|c: &mut Case, x| c.start_speed_m_s = x) as Apply,
+            )
+        }),
     ]
     .into_iter()
     .flatten()
@@ -98,7 +122,11 @@ mod tests {
             name: name.into(),
             mount: Mount::Track { start_m: 0.0 },
             length_m: 1.0,
-            force: ForceSource::Measured(MeasuredForce { points: vec![(0.0, 0.0), (1.0, 1.0)], fin_temp_c: 20.0, magnet_temp_c: 20.0 }),
+            force: ForceSource::Measured(MeasuredForce {
+                points: vec![(0.0, 0.0), (1.0, 1.0)],
+                fin_temp_c: 20.0,
+                magnet_temp_c: 20.0,
+            }),
             remanence_temp_coeff_per_k: 0.0,
             grade: None,
             lane: "main".into(),
@@ -111,20 +139,45 @@ mod tests {
         let out = each_section_out(&[nominal()], &secs);
         assert_eq!(out.len(), 3);
         let names: Vec<_> = out.iter().map(|c| c.name.as_str()).collect();
-        assert_eq!(names, ["nominal/without-B1", "nominal/without-B2", "nominal/without-B3"]);
+        assert_eq!(
+            names,
+            [
+                "nominal/without-B1",
+                "nominal/without-B2",
+                "nominal/without-B3"
+            ]
+        );
         assert_eq!(out[1].disabled, vec![1]);
         // Stable: the same input gives the same names again.
-        assert_eq!(each_section_out(&[nominal()], &secs).iter().map(|c| c.name.clone()).collect::<Vec<_>>(), names);
+        assert_eq!(
+            each_section_out(&[nominal()], &secs)
+                .iter()
+                .map(|c| c.name.clone())
+                .collect::<Vec<_>>(),
+            names
+        );
     }
 
     #[test]
     fn corners_full_factorial_named() {
-        let out = corners(&nominal(), Some((800.0, 1200.0)), Some((10.0, 80.0)), Some((0.0, 50.0)), None);
+        let out = corners(
+            &nominal(),
+            Some((800.0, 1200.0)),
+            Some((10.0, 80.0)),
+            Some((0.0, 50.0)),
+            None,
+        );
         assert_eq!(out.len(), 8);
         assert_eq!(out[0].name, "empty/cold-fin/cold-magnet");
         assert_eq!(out[7].name, "full/hot-fin/hot-magnet");
-        let hot = out.iter().find(|c| c.name == "full/hot-fin/cold-magnet").unwrap();
-        assert_eq!((hot.mass_kg, hot.fin_temp_c, hot.magnet_temp_c), (1200.0, 80.0, 0.0));
+        let hot = out
+            .iter()
+            .find(|c| c.name == "full/hot-fin/cold-magnet")
+            .unwrap();
+        assert_eq!(
+            (hot.mass_kg, hot.fin_temp_c, hot.magnet_temp_c),
+            (1200.0, 80.0, 0.0)
+        );
     }
 
     #[test]

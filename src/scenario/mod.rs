@@ -136,7 +136,10 @@ impl MagnetGrade {
     /// Parses the suffix letters (`N`, `SH`, or a full name such as `N42SH`).
     pub fn parse(text: &str) -> Option<Self> {
         let t = text.trim().to_ascii_uppercase();
-        let suffix: String = t.trim_start_matches('N').trim_start_matches(|c: char| c.is_ascii_digit()).to_string();
+        let suffix: String = t
+            .trim_start_matches('N')
+            .trim_start_matches(|c: char| c.is_ascii_digit())
+            .to_string();
         match suffix.as_str() {
             "" => Some(MagnetGrade::N),
             "M" => Some(MagnetGrade::M),
@@ -442,7 +445,11 @@ pub struct Scenario {
 impl Scenario {
     /// The file name for messages.
     pub fn file_label(&self) -> String {
-        self.path.as_deref().map(Path::display).map(|d| d.to_string()).unwrap_or_else(|| "<input>".into())
+        self.path
+            .as_deref()
+            .map(Path::display)
+            .map(|d| d.to_string())
+            .unwrap_or_else(|| "<input>".into())
     }
 
     /// A case by name.

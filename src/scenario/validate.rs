@@ -75,14 +75,18 @@ pub fn load(path: &Path) -> Result<Scenario, ScenarioError> {
 }
 
 /// Parses YAML into any serde shape, keeping the field path and line:column of the first error.
-pub fn parse_yaml<T: serde::de::DeserializeOwned>(text: &str, file: &str) -> Result<T, ScenarioError> {
+pub fn parse_yaml<T: serde::de::DeserializeOwned>(
+    text: &str,
+    file: &str,
+) -> Result<T, ScenarioError> {
     let path = RefCell::new(String::new());
-    let result: Result<T, serde_saphyr::Error> = serde_saphyr::with_deserializer_from_str(text, |de| {
-        serde_path_to_error::deserialize(de).map_err(|e| {
-            *path.borrow_mut() = e.path().to_string();
-            e.into_inner()
-        })
-    });
+    let result: Result<T, serde_saphyr::Error> =
+        serde_saphyr::with_deserializer_from_str(text, |de| {
+            serde_path_to_error::deserialize(de).map_err(|e| {
+                *path.borrow_mut() = e.path().to_string();
+                e.into_inner()
+            })
+        });
     result.map_err(|e| {
         let location = e.location().map(|l| (l.line(), l.column()));
         let message = e.to_string();
@@ -122,7 +126,11 @@ pub fn parse_str(text: &str, file: &str, base: Option<&Path>) -> Result<Scenario
                     Some((raw_limits.limits, lf_name))
                 }
                 Err(e) => {
-                    v.at(&lf.referenced, "limits_file", format!("cannot read '{}': {e}", p.display()));
+                    v.at(
+                        &lf.referenced,
+                        "limits_file",
+                        format!("cannot read '{}': {e}", p.display()),
+                    );
                     None
                 }
             }
@@ -186,12 +194,23 @@ impl Validator {
     }
 
     /// A value that must satisfy `ok`, else `what` is reported.
-    fn q_where(&mut self, q: &Q, kind: Kind, path: &str, ok: impl Fn(f64) -> bool, what: &str) -> Option<f64> {
+    fn q_where(
+        &mut self,
+        q: &Q,
+        kind: Kind,
+        path: &str,
+        ok: impl Fn(f64) -> bool,
+        what: &str,
+    ) -> Option<f64> {
         let x = self.q(q, kind, path)?;
         if ok(x) {
             Some(x)
         } else {
-            self.at(&q.referenced, path, format!("{what} (got {x} {})", kind.si_unit()));
+            self.at(
+                &q.referenced,
+                path,
+                format!("{what} (got {x} {})", kind.si_unit()),
+            );
             None
         }
     }
@@ -211,17 +230,33 @@ impl Validator {
         }
     }
 
-    fn required<'a, T>(&mut self, x: &'a Option<T>, path: &str, near: Option<(u64, u64)>) -> Option<&'a T> {
+    fn required<'a, T>(
+        &mut self,
+        x: &'a Option<T>,
+        path: &str,
+        near: Option<(u64, u64)>,
+    ) -> Option<&'a T> {
         if x.is_none() {
             self.push(near, path, "missing field");
         }
         x.as_ref()
     }
 
-    fn scenario(&mut self, raw: &RawScenario, file_limits: Option<(RawLimits, String)>) -> Option<Scenario> {
+    fn scenario(
+        &mut self,
+        raw: &RawScenario,
+        file_limits: Option<(RawLimits, String)>,
+    ) -> Option<Scenario> {
         if let Some(ver) = &raw.version {
             if ver.value != 1 {
-                self.at(&ver.referenced, "version", format!("unsupported version {} (this eddyzone reads version 1)", ver.value));
+                self.at(
+                    &ver.referenced,
+                    "version",
+                    format!(
+                        "unsupported version {} (this eddyzone reads version 1)",
+                        ver.value
+                    ),
+                );
             }
         }
         let materials = self.materials(&raw.materials);
@@ -230,7 +265,12 @@ impl Validator {
         let vloc = loc(&raw.vehicle.mass.referenced);
 
         let track_fins = raw.track.as_ref().and_then(|t| t.fins.as_ref());
-        let arrangement = match (&raw.vehicle.fins, &raw.sections, &raw.vehicle.magnets, track_fins) {
+        let arrangement = match (
+            &raw.vehicle.fins,
+            &raw.sections,
+            &raw.vehicle.magnets,
+            track_fins,
+        ) {
             (Some(_), Some(_), None, None) => Some(Arrangement::FinsOnVehicle),
             (None, None, Some(_), Some(_)) => Some(Arrangement::MagnetsOnVehicle),
             _ => {
@@ -247,36 +287,80 @@ impl Validator {
         let arrangement = arrangement?;
         let (fins, sections) = match arrangement {
             Arrangement::FinsOnVehicle => (
-                self.fins(raw.vehicle.fins.as_deref().unwrap_or(&[]), "vehicle.fins", true, &materials),
+                self.fins(
+                    raw.vehicle.fins.as_deref().unwrap_or(&[]),
+                    "vehicle.fins",
+                    true,
+                    &materials,
+                ),
                 self.sections(raw.sections.as_deref().unwrap_or(&[]), "sections", false),
             ),
             Arrangement::MagnetsOnVehicle => (
-                self.fins(track_fins.map(|v| v.as_slice()).unwrap_or(&[]), "track.fins", false, &materials),
-                self.sections(raw.vehicle.magnets.as_deref().unwrap_or(&[]), "vehicle.magnets", true),
+                self.fins(
+                    track_fins.map(|v| v.as_slice()).unwrap_or(&[]),
+                    "track.fins",
+                    false,
+                    &materials,
+                ),
+                self.sections(
+                    raw.vehicle.magnets.as_deref().unwrap_or(&[]),
+                    "vehicle.magnets",
+                    true,
+                ),
             ),
         };
         if fins.is_empty() {
-            self.push(vloc, if arrangement == Arrangement::FinsOnVehicle { "vehicle.fins" } else { "track.fins" }, "at least one fin is needed");
+            self.push(
+                vloc,
+                if arrangement == Arrangement::FinsOnVehicle {
+                    "vehicle.fins"
+                } else {
+                    "track.fins"
+                },
+                "at least one fin is needed",
+            );
         }
         if sections.is_empty() {
-            self.push(vloc, if arrangement == Arrangement::FinsOnVehicle { "sections" } else { "vehicle.magnets" }, "at least one magnet section is needed");
+            self.push(
+                vloc,
+                if arrangement == Arrangement::FinsOnVehicle {
+                    "sections"
+                } else {
+                    "vehicle.magnets"
+                },
+                "at least one magnet section is needed",
+            );
         }
         if let Some(len) = length_m {
             self.vehicle_elements_fit(raw, arrangement, &fins, &sections, len);
         }
 
         let track = self.track(raw.track.as_ref());
-        let nominal_res = self.resistance(raw.resistance.as_ref(), Resistance::default(), "resistance");
-        let (start_position_m, start_speed_m_s) = self.start(raw.start.as_ref(), None, "start", vloc);
+        let nominal_res =
+            self.resistance(raw.resistance.as_ref(), Resistance::default(), "resistance");
+        let (start_position_m, start_speed_m_s) =
+            self.start(raw.start.as_ref(), None, "start", vloc);
         let (fin_temp_c, magnet_temp_c) = self.temperatures(raw.temperatures.as_ref());
 
         // Extent of the zone along the track: track elements' span.
         let track_spans: Vec<(f64, f64)> = match arrangement {
-            Arrangement::FinsOnVehicle => sections.iter().filter_map(|s| track_span(s.mount, s.length_m)).collect(),
-            Arrangement::MagnetsOnVehicle => fins.iter().filter_map(|f| track_span(f.mount, f.length_m)).collect(),
+            Arrangement::FinsOnVehicle => sections
+                .iter()
+                .filter_map(|s| track_span(s.mount, s.length_m))
+                .collect(),
+            Arrangement::MagnetsOnVehicle => fins
+                .iter()
+                .filter_map(|f| track_span(f.mount, f.length_m))
+                .collect(),
         };
-        let zone_start_m = track_spans.iter().map(|s| s.0).fold(f64::INFINITY, f64::min);
-        let last_end = track_spans.iter().map(|s| s.1).fold(f64::NEG_INFINITY, f64::max);
+        let zone_start_m = track_spans
+            .iter()
+            .map(|s| s.0)
+            .fold(f64::INFINITY, f64::min);
+        let last_end = track_spans
+            .iter()
+            .map(|s| s.1)
+            .fold(f64::NEG_INFINITY, f64::max);
         let zone_end_m = match &raw.zone_end {
             Some(q) => self.q(q, Kind::Length, "zone_end"),
             None => Some(last_end),
@@ -302,7 +386,10 @@ impl Validator {
         let plan = raw.plan.as_ref().and_then(|p| self.plan(p, arrangement));
 
         let mass_kg = mass_kg?;
-        let vehicle = Vehicle { mass_kg, length_m: length_m? };
+        let vehicle = Vehicle {
+            mass_kg,
+            length_m: length_m?,
+        };
         let nominal = Case {
             name: "nominal".into(),
             origin: CaseOrigin::Listed,
@@ -323,7 +410,8 @@ impl Validator {
             return None;
         }
         if let Some(g) = &raw.generate {
-            let generated = self.generate(g, &cases, &nominal, &sections, zone_end_m, vehicle.length_m);
+            let generated =
+                self.generate(g, &cases, &nominal, &sections, zone_end_m, vehicle.length_m);
             cases.extend(generated);
         }
         Some(Scenario {
@@ -352,15 +440,35 @@ impl Validator {
         let mut out = materials::builtin();
         for (name, m) in raw.iter().flatten() {
             let p = format!("materials.{name}");
-            let conductivity = self.positive(&m.conductivity, Kind::Conductivity, &format!("{p}.conductivity"));
-            let temp_coeff = self.q_where(&m.temp_coeff, Kind::TempCoefficient, &format!("{p}.temp_coeff"), |a| a > -0.01 && a < 0.1, "must lie between -0.01 and 0.1 1/K");
+            let conductivity = self.positive(
+                &m.conductivity,
+                Kind::Conductivity,
+                &format!("{p}.conductivity"),
+            );
+            let temp_coeff = self.q_where(
+                &m.temp_coeff,
+                Kind::TempCoefficient,
+                &format!("{p}.temp_coeff"),
+                |a| a > -0.01 && a < 0.1,
+                "must lie between -0.01 and 0.1 1/K",
+            );
             let density = self.positive(&m.density, Kind::Density, &format!("{p}.density"));
-            let specific_heat = self.positive(&m.specific_heat, Kind::SpecificHeat, &format!("{p}.specific_heat"));
+            let specific_heat = self.positive(
+                &m.specific_heat,
+                Kind::SpecificHeat,
+                &format!("{p}.specific_heat"),
+            );
             if out.iter().any(|b| &b.name == name) {
-                self.at(&m.conductivity.referenced, &p, format!("'{name}' is a built-in material name; choose another"));
+                self.at(
+                    &m.conductivity.referenced,
+                    &p,
+                    format!("'{name}' is a built-in material name; choose another"),
+                );
                 continue;
             }
-            if let (Some(c), Some(a), Some(d), Some(h)) = (conductivity, temp_coeff, density, specific_heat) {
+            if let (Some(c), Some(a), Some(d), Some(h)) =
+                (conductivity, temp_coeff, density, specific_heat)
+            {
                 out.push(Material {
                     name: name.clone(),
                     conductivity_s_m: c,
@@ -374,10 +482,21 @@ impl Validator {
         out
     }
 
-    fn mount(&mut self, offset: &Option<Q>, start: &Option<Q>, on_vehicle: bool, path: &str, near: Option<(u64, u64)>) -> Option<Mount> {
+    fn mount(
+        &mut self,
+        offset: &Option<Q>,
+        start: &Option<Q>,
+        on_vehicle: bool,
+        path: &str,
+        near: Option<(u64, u64)>,
+    ) -> Option<Mount> {
         match (on_vehicle, offset, start) {
-            (true, Some(o), None) => self.non_negative(o, Kind::Length, &format!("{path}.offset")).map(|offset_m| Mount::Vehicle { offset_m }),
-            (false, None, Some(s)) => self.q(s, Kind::Length, &format!("{path}.start")).map(|start_m| Mount::Track { start_m }),
+            (true, Some(o), None) => self
+                .non_negative(o, Kind::Length, &format!("{path}.offset"))
+                .map(|offset_m| Mount::Vehicle { offset_m }),
+            (false, None, Some(s)) => self
+                .q(s, Kind::Length, &format!("{path}.start"))
+                .map(|start_m| Mount::Track { start_m }),
             (true, _, Some(s)) => {
                 self.at(&s.referenced, &format!("{path}.start"), "an element on the vehicle is placed by `offset` (vehicle front to its leading edge), not `start`");
                 None
@@ -398,27 +517,53 @@ impl Validator {
     }
 
     /// Copies of a repeat: (suffix, shift along the track).
-    fn repeats(&mut self, r: &Option<RawRepeat>, length_m: Option<f64>, path: &str) -> Vec<(String, f64)> {
-        let Some(r) = r else { return vec![(String::new(), 0.0)] };
+    fn repeats(
+        &mut self,
+        r: &Option<RawRepeat>,
+        length_m: Option<f64>,
+        path: &str,
+    ) -> Vec<(String, f64)> {
+        let Some(r) = r else {
+            return vec![(String::new(), 0.0)];
+        };
         let count = r.count.value;
         if count == 0 || count > 10_000 {
-            self.at(&r.count.referenced, &format!("{path}.repeat.count"), "must be between 1 and 10000");
+            self.at(
+                &r.count.referenced,
+                &format!("{path}.repeat.count"),
+                "must be between 1 and 10000",
+            );
             return vec![];
         }
-        let Some(pitch) = self.positive(&r.pitch, Kind::Length, &format!("{path}.repeat.pitch")) else { return vec![] };
+        let Some(pitch) = self.positive(&r.pitch, Kind::Length, &format!("{path}.repeat.pitch"))
+        else {
+            return vec![];
+        };
         if let Some(len) = length_m {
             if count > 1 && pitch < len {
-                self.at(&r.pitch.referenced, &format!("{path}.repeat.pitch"), format!("copies overlap: pitch {pitch} m is shorter than the length {len} m"));
+                self.at(
+                    &r.pitch.referenced,
+                    &format!("{path}.repeat.pitch"),
+                    format!("copies overlap: pitch {pitch} m is shorter than the length {len} m"),
+                );
                 return vec![];
             }
         }
         if count == 1 {
             return vec![(String::new(), 0.0)];
         }
-        (0..count).map(|i| (format!("-{}", i + 1), pitch * f64::from(i))).collect()
+        (0..count)
+            .map(|i| (format!("-{}", i + 1), pitch * f64::from(i)))
+            .collect()
     }
 
-    fn fins(&mut self, raw: &[RawFin], path: &str, on_vehicle: bool, mats: &[Material]) -> Vec<Fin> {
+    fn fins(
+        &mut self,
+        raw: &[RawFin],
+        path: &str,
+        on_vehicle: bool,
+        mats: &[Material],
+    ) -> Vec<Fin> {
         let mut out = Vec::new();
         for (i, f) in raw.iter().enumerate() {
             let p = format!("{path}[{i}]");
@@ -430,17 +575,44 @@ impl Validator {
             let material = mats.iter().find(|m| m.name == f.material.value).cloned();
             if material.is_none() {
                 let names: Vec<_> = mats.iter().map(|m| m.name.as_str()).collect();
-                self.at(&f.material.referenced, &format!("{p}.material"), format!("undefined material '{}' (known: {})", f.material.value, names.join(", ")));
+                self.at(
+                    &f.material.referenced,
+                    &format!("{p}.material"),
+                    format!(
+                        "undefined material '{}' (known: {})",
+                        f.material.value,
+                        names.join(", ")
+                    ),
+                );
             }
             let copies = self.repeats(&f.repeat, length_m, &p);
             self.check_name(&f.name, &format!("{p}.name"));
-            if let (Some(mount), Some(length_m), Some(height_m), Some(thickness_m), Some(material)) = (mount, length_m, height_m, thickness_m, material) {
+            if let (
+                Some(mount),
+                Some(length_m),
+                Some(height_m),
+                Some(thickness_m),
+                Some(material),
+            ) = (mount, length_m, height_m, thickness_m, material)
+            {
                 for (suffix, shift) in copies {
-                    out.push(Fin { name: format!("{}{suffix}", f.name.value), mount: shifted(mount, shift), length_m, height_m, thickness_m, material: material.clone(), lane: lane_of(&f.lane) });
+                    out.push(Fin {
+                        name: format!("{}{suffix}", f.name.value),
+                        mount: shifted(mount, shift),
+                        length_m,
+                        height_m,
+                        thickness_m,
+                        material: material.clone(),
+                        lane: lane_of(&f.lane),
+                    });
                 }
             }
         }
-        self.unique(out.iter().map(|f| f.name.as_str()), raw.iter().map(|f| &f.name), path);
+        self.unique(
+            out.iter().map(|f| f.name.as_str()),
+            raw.iter().map(|f| &f.name),
+            path,
+        );
         out
     }
 
@@ -450,33 +622,74 @@ impl Validator {
         }
     }
 
-    fn unique<'a>(&mut self, names: impl Iterator<Item = &'a str>, raw: impl Iterator<Item = &'a Spanned<String>> + Clone, path: &str) {
+    fn unique<'a>(
+        &mut self,
+        names: impl Iterator<Item = &'a str>,
+        raw: impl Iterator<Item = &'a Spanned<String>> + Clone,
+        path: &str,
+    ) {
         let mut seen: Vec<&str> = Vec::new();
         for n in names {
             if seen.contains(&n) {
-                let at = raw.clone().position(|r| n.starts_with(r.value.as_str())).unwrap_or(0);
+                let at = raw
+                    .clone()
+                    .position(|r| n.starts_with(r.value.as_str()))
+                    .unwrap_or(0);
                 let r = raw.clone().nth(at);
                 let l = r.map(|r| loc(&r.referenced)).unwrap_or(None);
-                self.push(l, &format!("{path}[{at}].name"), format!("duplicate name '{n}'"));
+                self.push(
+                    l,
+                    &format!("{path}[{at}].name"),
+                    format!("duplicate name '{n}'"),
+                );
                 return;
             }
             seen.push(n);
         }
     }
 
-    fn magnet_design(&mut self, s: &RawSection, p: &str, near: Option<(u64, u64)>) -> Option<MagnetDesign> {
-        let pole_pitch = self.required(&s.pole_pitch, &format!("{p}.pole_pitch"), near).and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_pitch")));
-        let magnet_thickness = self.required(&s.magnet_thickness, &format!("{p}.magnet_thickness"), near).and_then(|q| self.positive(q, Kind::Length, &format!("{p}.magnet_thickness")));
+    fn magnet_design(
+        &mut self,
+        s: &RawSection,
+        p: &str,
+        near: Option<(u64, u64)>,
+    ) -> Option<MagnetDesign> {
+        let pole_pitch = self
+            .required(&s.pole_pitch, &format!("{p}.pole_pitch"), near)
+            .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_pitch")));
+        let magnet_thickness = self
+            .required(&s.magnet_thickness, &format!("{p}.magnet_thickness"), near)
+            .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.magnet_thickness")));
         let fill = match &s.magnet_fill {
-            Some(q) => self.q_where(q, Kind::Ratio, &format!("{p}.magnet_fill"), |f| f > 0.0 && f <= 1.0, "must lie in (0, 1]"),
+            Some(q) => self.q_where(
+                q,
+                Kind::Ratio,
+                &format!("{p}.magnet_fill"),
+                |f| f > 0.0 && f <= 1.0,
+                "must lie in (0, 1]",
+            ),
             None => {
                 self.push(near, &format!("{p}.magnet_fill"), "missing field");
                 None
             }
         };
-        let remanence = self.required(&s.remanence, &format!("{p}.remanence"), near).and_then(|q| self.q_where(q, Kind::FluxDensity, &format!("{p}.remanence"), |b| b > 0.0 && b <= 1.6, "must lie in (0, 1.6] T"));
-        let clearance = self.required(&s.clearance, &format!("{p}.clearance"), near).and_then(|q| self.positive(q, Kind::Length, &format!("{p}.clearance")));
-        let pole_height = self.required(&s.pole_height, &format!("{p}.pole_height"), near).and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_height")));
+        let remanence = self
+            .required(&s.remanence, &format!("{p}.remanence"), near)
+            .and_then(|q| {
+                self.q_where(
+                    q,
+                    Kind::FluxDensity,
+                    &format!("{p}.remanence"),
+                    |b| b > 0.0 && b <= 1.6,
+                    "must lie in (0, 1.6] T",
+                )
+            });
+        let clearance = self
+            .required(&s.clearance, &format!("{p}.clearance"), near)
+            .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.clearance")));
+        let pole_height = self
+            .required(&s.pole_height, &format!("{p}.pole_height"), near)
+            .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_height")));
         Some(MagnetDesign {
             pole_pitch_m: pole_pitch?,
             magnet_thickness_m: magnet_thickness?,
@@ -503,13 +716,29 @@ impl Validator {
                 ok = false;
                 continue;
             }
-            let v = self.q_where(&pt[0], Kind::Speed, &format!("{pp}[0]"), |v| v >= 0.0, "speed must not be negative");
-            let f = self.q_where(&pt[1], Kind::ForcePerLength, &format!("{pp}[1]"), |f| f >= 0.0, "force must not be negative");
+            let v = self.q_where(
+                &pt[0],
+                Kind::Speed,
+                &format!("{pp}[0]"),
+                |v| v >= 0.0,
+                "speed must not be negative",
+            );
+            let f = self.q_where(
+                &pt[1],
+                Kind::ForcePerLength,
+                &format!("{pp}[1]"),
+                |f| f >= 0.0,
+                "force must not be negative",
+            );
             match (v, f) {
                 (Some(v), Some(f)) => {
                     if let Some(&(prev, _)) = points.last() {
                         if v <= prev {
-                            self.at(&pt[0].referenced, &format!("{pp}[0]"), "speeds must increase strictly");
+                            self.at(
+                                &pt[0].referenced,
+                                &format!("{pp}[0]"),
+                                "speeds must increase strictly",
+                            );
                             ok = false;
                         }
                     }
@@ -519,22 +748,43 @@ impl Validator {
             }
         }
         if fc.points.len() < 2 {
-            self.at(&fc.fin_temp.referenced, &format!("{p}.points"), "at least two points are needed");
+            self.at(
+                &fc.fin_temp.referenced,
+                &format!("{p}.points"),
+                "at least two points are needed",
+            );
             ok = false;
         }
         if !ok {
             return None;
         }
-        Some(MeasuredForce { points, fin_temp_c: fin_temp_c?, magnet_temp_c: magnet_temp_c? })
+        Some(MeasuredForce {
+            points,
+            fin_temp_c: fin_temp_c?,
+            magnet_temp_c: magnet_temp_c?,
+        })
     }
 
-    fn section_body(&mut self, s: &RawSection, p: &str, near: Option<(u64, u64)>) -> Option<(ForceSource, f64, Option<MagnetGrade>)> {
+    fn section_body(
+        &mut self,
+        s: &RawSection,
+        p: &str,
+        near: Option<(u64, u64)>,
+    ) -> Option<(ForceSource, f64, Option<MagnetGrade>)> {
         let force = match &s.force_curve {
-            Some(fc) => self.measured(fc, &format!("{p}.force_curve")).map(ForceSource::Measured),
+            Some(fc) => self
+                .measured(fc, &format!("{p}.force_curve"))
+                .map(ForceSource::Measured),
             None => self.magnet_design(s, p, near).map(ForceSource::Model),
         };
         let beta = match &s.remanence_temp_coeff {
-            Some(q) => self.q_where(q, Kind::TempCoefficient, &format!("{p}.remanence_temp_coeff"), |b| b > -0.01 && b <= 0.0, "must lie in (-1 %/K, 0]"),
+            Some(q) => self.q_where(
+                q,
+                Kind::TempCoefficient,
+                &format!("{p}.remanence_temp_coeff"),
+                |b| b > -0.01 && b <= 0.0,
+                "must lie in (-1 %/K, 0]",
+            ),
             // NdFeB: about −0.12 %/K (common practice, manufacturers' grade tables).
             None => Some(-0.0012),
         };
@@ -542,7 +792,14 @@ impl Validator {
             Some(g) => match MagnetGrade::parse(&g.value) {
                 Some(x) => Some(Some(x)),
                 None => {
-                    self.at(&g.referenced, &format!("{p}.grade"), format!("unknown magnet grade '{}' (N, M, H, SH, UH, EH, or e.g. N42SH)", g.value));
+                    self.at(
+                        &g.referenced,
+                        &format!("{p}.grade"),
+                        format!(
+                            "unknown magnet grade '{}' (N, M, H, SH, UH, EH, or e.g. N42SH)",
+                            g.value
+                        ),
+                    );
                     None
                 }
             },
@@ -561,7 +818,9 @@ impl Validator {
             let length_m = self.positive(&s.length, Kind::Length, &format!("{p}.length"));
             let body = self.section_body(s, &p, near);
             let copies = self.repeats(&s.repeat, length_m, &p);
-            if let (Some(mount), Some(length_m), Some((force, beta, grade))) = (mount, length_m, body) {
+            if let (Some(mount), Some(length_m), Some((force, beta, grade))) =
+                (mount, length_m, body)
+            {
                 for (suffix, shift) in copies {
                     out.push(Section {
                         name: format!("{}{suffix}", s.name.value),
@@ -575,23 +834,51 @@ impl Validator {
                 }
             }
         }
-        self.unique(out.iter().map(|s| s.name.as_str()), raw.iter().map(|s| &s.name), path);
+        self.unique(
+            out.iter().map(|s| s.name.as_str()),
+            raw.iter().map(|s| &s.name),
+            path,
+        );
         // Track elements of one kind must not overlap each other.
-        let spans: Vec<(usize, f64, f64)> = out.iter().enumerate().filter_map(|(i, s)| track_span(s.mount, s.length_m).map(|(a, b)| (i, a, b))).collect();
+        let spans: Vec<(usize, f64, f64)> = out
+            .iter()
+            .enumerate()
+            .filter_map(|(i, s)| track_span(s.mount, s.length_m).map(|(a, b)| (i, a, b)))
+            .collect();
         for (k, &(i, a0, a1)) in spans.iter().enumerate() {
             for &(j, b0, b1) in &spans[k + 1..] {
                 if out[i].lane == out[j].lane && a0 < b1 - 1e-12 && b0 < a1 - 1e-12 {
-                    self.push(None, path, format!("sections '{}' and '{}' overlap along the track", out[i].name, out[j].name));
+                    self.push(
+                        None,
+                        path,
+                        format!(
+                            "sections '{}' and '{}' overlap along the track",
+                            out[i].name, out[j].name
+                        ),
+                    );
                 }
             }
         }
         out
     }
 
-    fn vehicle_elements_fit(&mut self, raw: &RawScenario, arrangement: Arrangement, fins: &[Fin], sections: &[Section], len: f64) {
+    fn vehicle_elements_fit(
+        &mut self,
+        raw: &RawScenario,
+        arrangement: Arrangement,
+        fins: &[Fin],
+        sections: &[Section],
+        len: f64,
+    ) {
         let items: Vec<(&str, Mount, f64, &str)> = match arrangement {
-            Arrangement::FinsOnVehicle => fins.iter().map(|f| (f.name.as_str(), f.mount, f.length_m, "vehicle.fins")).collect(),
-            Arrangement::MagnetsOnVehicle => sections.iter().map(|s| (s.name.as_str(), s.mount, s.length_m, "vehicle.magnets")).collect(),
+            Arrangement::FinsOnVehicle => fins
+                .iter()
+                .map(|f| (f.name.as_str(), f.mount, f.length_m, "vehicle.fins"))
+                .collect(),
+            Arrangement::MagnetsOnVehicle => sections
+                .iter()
+                .map(|s| (s.name.as_str(), s.mount, s.length_m, "vehicle.magnets"))
+                .collect(),
         };
         for (name, mount, l, path) in items {
             if let Mount::Vehicle { offset_m } = mount {
@@ -612,20 +899,50 @@ impl Validator {
             None => Gravity::Grade { slope: 0.0 },
             Some(t) => match (&t.grade, &t.angle, &t.profile) {
                 (None, None, None) => Gravity::Grade { slope: 0.0 },
-                (Some(g), None, None) => Gravity::Grade { slope: self.q_where(g, Kind::Ratio, "track.grade", |g| g.abs() <= 1.0, "must lie within ±100 % (dz/ds along the track)")? },
+                (Some(g), None, None) => Gravity::Grade {
+                    slope: self.q_where(
+                        g,
+                        Kind::Ratio,
+                        "track.grade",
+                        |g| g.abs() <= 1.0,
+                        "must lie within ±100 % (dz/ds along the track)",
+                    )?,
+                },
                 (None, Some(a), None) => {
-                    let rad = self.q_where(a, Kind::Angle, "track.angle", |a| a.abs() <= std::f64::consts::FRAC_PI_2 + 1e-12, "must lie within ±90 deg")?;
-                    Gravity::Grade { slope: rad.sin().clamp(-1.0, 1.0) }
+                    let rad = self.q_where(
+                        a,
+                        Kind::Angle,
+                        "track.angle",
+                        |a| a.abs() <= std::f64::consts::FRAC_PI_2 + 1e-12,
+                        "must lie within ±90 deg",
+                    )?;
+                    Gravity::Grade {
+                        slope: rad.sin().clamp(-1.0, 1.0),
+                    }
                 }
-                (None, None, Some(points)) => Gravity::Profile { points: self.profile(points)? },
+                (None, None, Some(points)) => Gravity::Profile {
+                    points: self.profile(points)?,
+                },
                 (g, a, p) => {
-                    let l = g.as_ref().or(a.as_ref()).map(|q| loc(&q.referenced)).unwrap_or(None).or(p.as_ref().and_then(|p| p.first()).and_then(|r| r.first()).and_then(|q| loc(&q.referenced)));
+                    let l = g
+                        .as_ref()
+                        .or(a.as_ref())
+                        .map(|q| loc(&q.referenced))
+                        .unwrap_or(None)
+                        .or(p
+                            .as_ref()
+                            .and_then(|p| p.first())
+                            .and_then(|r| r.first())
+                            .and_then(|q| loc(&q.referenced)));
                     self.push(l, "track", "give one of `grade`, `angle` or `profile`");
                     return None;
                 }
             },
         };
-        Some(Track { gravity, air_density_kg_m3: air })
+        Some(Track {
+            gravity,
+            air_density_kg_m3: air,
+        })
     }
 
     fn profile(&mut self, raw: &[Vec<Q>]) -> Option<Vec<(f64, f64)>> {
@@ -639,13 +956,20 @@ impl Validator {
                 ok = false;
                 continue;
             }
-            let (Some(s), Some(z)) = (self.q(&pt[0], Kind::Length, &format!("{p}[0]")), self.q(&pt[1], Kind::Length, &format!("{p}[1]"))) else {
+            let (Some(s), Some(z)) = (
+                self.q(&pt[0], Kind::Length, &format!("{p}[0]")),
+                self.q(&pt[1], Kind::Length, &format!("{p}[1]")),
+            ) else {
                 ok = false;
                 continue;
             };
             if let Some(&(ps, pz)) = pts.last() {
                 if s <= ps {
-                    self.at(&pt[0].referenced, &format!("{p}[0]"), "positions must increase strictly");
+                    self.at(
+                        &pt[0].referenced,
+                        &format!("{p}[0]"),
+                        "positions must increase strictly",
+                    );
                     ok = false;
                 } else if ((z - pz) / (s - ps)).abs() > 1.0 + 1e-12 {
                     self.at(&pt[1].referenced, &format!("{p}[1]"), format!("|dz/ds| = {:.3} > 1: elevation cannot change faster than the distance along the track", ((z - pz) / (s - ps)).abs()));
@@ -661,10 +985,21 @@ impl Validator {
         ok.then_some(pts)
     }
 
-    fn resistance(&mut self, r: Option<&RawResistance>, base: Resistance, p: &str) -> Option<Resistance> {
+    fn resistance(
+        &mut self,
+        r: Option<&RawResistance>,
+        base: Resistance,
+        p: &str,
+    ) -> Option<Resistance> {
         let Some(r) = r else { return Some(base) };
         let rolling = match &r.rolling {
-            Some(q) => self.q_where(q, Kind::Ratio, &format!("{p}.rolling"), |x| (0.0..1.0).contains(&x), "must lie in [0, 1)"),
+            Some(q) => self.q_where(
+                q,
+                Kind::Ratio,
+                &format!("{p}.rolling"),
+                |x| (0.0..1.0).contains(&x),
+                "must lie in [0, 1)",
+            ),
             None => Some(base.rolling_coeff),
         };
         let drag = match &r.drag_area {
@@ -675,15 +1010,29 @@ impl Validator {
             Some(q) => self.non_negative(q, Kind::Force, &format!("{p}.friction")),
             None => Some(base.friction_n),
         };
-        Some(Resistance { rolling_coeff: rolling?, drag_area_m2: drag?, friction_n: friction? })
+        Some(Resistance {
+            rolling_coeff: rolling?,
+            drag_area_m2: drag?,
+            friction_n: friction?,
+        })
     }
 
-    fn start(&mut self, s: Option<&RawStart>, base: Option<(f64, f64)>, p: &str, near: Option<(u64, u64)>) -> (Option<f64>, Option<f64>) {
+    fn start(
+        &mut self,
+        s: Option<&RawStart>,
+        base: Option<(f64, f64)>,
+        p: &str,
+        near: Option<(u64, u64)>,
+    ) -> (Option<f64>, Option<f64>) {
         let pos = match (s.and_then(|s| s.position.as_ref()), base) {
             (Some(q), _) => self.q(q, Kind::Length, &format!("{p}.position")),
             (None, Some(b)) => Some(b.0),
             (None, None) => {
-                self.push(near, &format!("{p}.position"), "missing field (track position of the vehicle front at the start)");
+                self.push(
+                    near,
+                    &format!("{p}.position"),
+                    "missing field (track position of the vehicle front at the start)",
+                );
                 None
             }
         };
@@ -697,7 +1046,13 @@ impl Validator {
 
     fn temperature(&mut self, q: &Option<Q>, path: &str, default: f64) -> Option<f64> {
         match q {
-            Some(q) => self.q_where(q, Kind::Temperature, path, |t| t > -100.0 && t < 1000.0, "must lie between -100 °C and 1000 °C"),
+            Some(q) => self.q_where(
+                q,
+                Kind::Temperature,
+                path,
+                |t| t > -100.0 && t < 1000.0,
+                "must lie between -100 °C and 1000 °C",
+            ),
             None => Some(default),
         }
     }
@@ -706,25 +1061,52 @@ impl Validator {
         let d = crate::constants::REFERENCE_TEMPERATURE_C;
         match t {
             None => (Some(d), Some(d)),
-            Some(t) => (self.temperature(&t.fin, "temperatures.fin", d), self.temperature(&t.magnet, "temperatures.magnet", d)),
+            Some(t) => (
+                self.temperature(&t.fin, "temperatures.fin", d),
+                self.temperature(&t.magnet, "temperatures.magnet", d),
+            ),
         }
     }
 
-    fn section_index(&mut self, name: &Spanned<String>, sections: &[Section], path: &str) -> Vec<usize> {
+    fn section_index(
+        &mut self,
+        name: &Spanned<String>,
+        sections: &[Section],
+        path: &str,
+    ) -> Vec<usize> {
         // A repeated section's base name disables every copy.
-        let exact: Vec<usize> = sections.iter().enumerate().filter(|(_, s)| s.name == name.value).map(|(i, _)| i).collect();
+        let exact: Vec<usize> = sections
+            .iter()
+            .enumerate()
+            .filter(|(_, s)| s.name == name.value)
+            .map(|(i, _)| i)
+            .collect();
         if !exact.is_empty() {
             return exact;
         }
         let copies: Vec<usize> = sections
             .iter()
             .enumerate()
-            .filter(|(_, s)| s.name.strip_prefix(name.value.as_str()).is_some_and(|rest| rest.starts_with('-') && rest[1..].chars().all(|c| c.is_ascii_digit())))
+            .filter(|(_, s)| {
+                s.name
+                    .strip_prefix(name.value.as_str())
+                    .is_some_and(|rest| {
+                        rest.starts_with('-') && rest[1..].chars().all(|c| c.is_ascii_digit())
+                    })
+            })
             .map(|(i, _)| i)
             .collect();
         if copies.is_empty() {
             let names: Vec<_> = sections.iter().map(|s| s.name.as_str()).collect();
-            self.at(&name.referenced, path, format!("no section named '{}' (known: {})", name.value, names.join(", ")));
+            self.at(
+                &name.referenced,
+                path,
+                format!(
+                    "no section named '{}' (known: {})",
+                    name.value,
+                    names.join(", ")
+                ),
+            );
         }
         copies
     }
@@ -735,31 +1117,69 @@ impl Validator {
             let p = format!("cases[{i}]");
             self.check_name(&c.name, &format!("{p}.name"));
             if out.iter().any(|o| o.name == c.name.value) {
-                self.at(&c.name.referenced, &format!("{p}.name"), format!("duplicate case name '{}'", c.name.value));
+                self.at(
+                    &c.name.referenced,
+                    &format!("{p}.name"),
+                    format!("duplicate case name '{}'", c.name.value),
+                );
             }
             let mass = match &c.mass {
                 Some(q) => self.positive(q, Kind::Mass, &format!("{p}.mass")),
                 None => Some(nominal.mass_kg),
             };
-            let (pos, speed) = self.start(c.start.as_ref(), Some((nominal.start_position_m, nominal.start_speed_m_s)), &format!("{p}.start"), None);
+            let (pos, speed) = self.start(
+                c.start.as_ref(),
+                Some((nominal.start_position_m, nominal.start_speed_m_s)),
+                &format!("{p}.start"),
+                None,
+            );
             let fin = self.temperature(&c.fin_temp, &format!("{p}.fin_temp"), nominal.fin_temp_c);
-            let mag = self.temperature(&c.magnet_temp, &format!("{p}.magnet_temp"), nominal.magnet_temp_c);
-            let res = self.resistance(c.resistance.as_ref(), nominal.resistance, &format!("{p}.resistance"));
+            let mag = self.temperature(
+                &c.magnet_temp,
+                &format!("{p}.magnet_temp"),
+                nominal.magnet_temp_c,
+            );
+            let res = self.resistance(
+                c.resistance.as_ref(),
+                nominal.resistance,
+                &format!("{p}.resistance"),
+            );
             let mut disabled = Vec::new();
             for (k, d) in c.disabled.iter().flatten().enumerate() {
                 disabled.extend(self.section_index(d, sections, &format!("{p}.disabled[{k}]")));
             }
             disabled.sort_unstable();
             disabled.dedup();
-            if let (Some(mass_kg), Some(start_position_m), Some(start_speed_m_s), Some(fin_temp_c), Some(magnet_temp_c), Some(resistance)) = (mass, pos, speed, fin, mag, res) {
-                out.push(Case { name: c.name.value.clone(), origin: CaseOrigin::Listed, mass_kg, start_position_m, start_speed_m_s, fin_temp_c, magnet_temp_c, disabled, resistance });
+            if let (
+                Some(mass_kg),
+                Some(start_position_m),
+                Some(start_speed_m_s),
+                Some(fin_temp_c),
+                Some(magnet_temp_c),
+                Some(resistance),
+            ) = (mass, pos, speed, fin, mag, res)
+            {
+                out.push(Case {
+                    name: c.name.value.clone(),
+                    origin: CaseOrigin::Listed,
+                    mass_kg,
+                    start_position_m,
+                    start_speed_m_s,
+                    fin_temp_c,
+                    magnet_temp_c,
+                    disabled,
+                    resistance,
+                });
             }
         }
         out
     }
 
     fn solver(&mut self, s: Option<&RawSolver>) -> Option<Solver> {
-        let mut out = Solver { rtol: 1e-10, atol: 1e-10 };
+        let mut out = Solver {
+            rtol: 1e-10,
+            atol: 1e-10,
+        };
         if let Some(s) = s {
             if let Some(r) = &s.rtol {
                 if !(r.value > 1e-14 && r.value <= 1e-3) {
@@ -782,15 +1202,26 @@ impl Validator {
     fn rider(&mut self, r: Option<&RawRider>, track: &Option<Track>) -> Option<Rider> {
         // Default axis: a vertical (or nearly so) track is the rider's spine; otherwise fore–aft.
         let steep = matches!(track, Some(Track { gravity: Gravity::Grade { slope }, .. }) if slope.abs() > 0.9);
-        let default_filter = FilterSettings { corner_hz: 5.0, order: 4, sample_rate_hz: 1000.0 };
+        let default_filter = FilterSettings {
+            corner_hz: 5.0,
+            order: 4,
+            sample_rate_hz: 1000.0,
+        };
         let Some(r) = r else {
-            return Some(Rider { track_axis: if steep { Axis::Z } else { Axis::X }, filter: Some(default_filter) });
+            return Some(Rider {
+                track_axis: if steep { Axis::Z } else { Axis::X },
+                filter: Some(default_filter),
+            });
         };
         let track_axis = match r.track_axis.value.as_str() {
             "x" => Axis::X,
             "z" => Axis::Z,
             other => {
-                self.at(&r.track_axis.referenced, "rider.track_axis", format!("unknown axis '{other}' (x: fore–aft, seated; z: along the spine)"));
+                self.at(
+                    &r.track_axis.referenced,
+                    "rider.track_axis",
+                    format!("unknown axis '{other}' (x: fore–aft, seated; z: along the spine)"),
+                );
                 return None;
             }
         };
@@ -801,7 +1232,11 @@ impl Validator {
                 let mut fs = default_filter;
                 if let Some(c) = &f.corner_hz {
                     if !(c.value > 0.0 && c.value.is_finite()) {
-                        self.at(&c.referenced, "rider.filter.corner_hz", "must be greater than zero");
+                        self.at(
+                            &c.referenced,
+                            "rider.filter.corner_hz",
+                            "must be greater than zero",
+                        );
                         return None;
                     }
                     fs.corner_hz = c.value;
@@ -815,13 +1250,21 @@ impl Validator {
                 }
                 if let Some(s) = &f.sample_rate_hz {
                     if !(s.value > 2.0 * fs.corner_hz && s.value <= 1e6) {
-                        self.at(&s.referenced, "rider.filter.sample_rate_hz", "must exceed twice the corner frequency (and be at most 1 MHz)");
+                        self.at(
+                            &s.referenced,
+                            "rider.filter.sample_rate_hz",
+                            "must exceed twice the corner frequency (and be at most 1 MHz)",
+                        );
                         return None;
                     }
                     fs.sample_rate_hz = s.value;
                 }
                 if fs.corner_hz * 2.0 >= fs.sample_rate_hz {
-                    self.push(None, "rider.filter.corner_hz", "must be below half the sample rate");
+                    self.push(
+                        None,
+                        "rider.filter.corner_hz",
+                        "must be below half the sample rate",
+                    );
                     return None;
                 }
                 Some(fs)
@@ -836,17 +1279,37 @@ impl Validator {
         for (i, pt) in raw.iter().enumerate() {
             let pp = format!("{p}[{i}]");
             if pt.len() != 2 {
-                self.push(pt.first().and_then(|q| loc(&q.referenced)), &pp, "each point is [duration, allowed acceleration]");
+                self.push(
+                    pt.first().and_then(|q| loc(&q.referenced)),
+                    &pp,
+                    "each point is [duration, allowed acceleration]",
+                );
                 ok = false;
                 continue;
             }
-            let d = self.q_where(&pt[0], Kind::Time, &format!("{pp}[0]"), |d| d >= 0.0, "duration must not be negative");
-            let a = self.q_where(&pt[1], Kind::Acceleration, &format!("{pp}[1]"), |a| a >= 0.0, "allowed level must not be negative");
+            let d = self.q_where(
+                &pt[0],
+                Kind::Time,
+                &format!("{pp}[0]"),
+                |d| d >= 0.0,
+                "duration must not be negative",
+            );
+            let a = self.q_where(
+                &pt[1],
+                Kind::Acceleration,
+                &format!("{pp}[1]"),
+                |a| a >= 0.0,
+                "allowed level must not be negative",
+            );
             match (d, a) {
                 (Some(d), Some(a)) => {
                     if let Some(&(pd, _)) = pts.last() {
                         if d < pd {
-                            self.at(&pt[0].referenced, &format!("{pp}[0]"), "durations must not decrease (the envelope must be sorted)");
+                            self.at(
+                                &pt[0].referenced,
+                                &format!("{pp}[0]"),
+                                "durations must not decrease (the envelope must be sorted)",
+                            );
                             ok = false;
                         }
                     }
@@ -872,18 +1335,26 @@ impl Validator {
                 let name = ["x", "y", "z"][k];
                 if let Some(a) = axis {
                     if let Some(q) = &a.max {
-                        if let Some(x) = self.q(q, Kind::Acceleration, &format!("limits.peak.{name}.max")) {
+                        if let Some(x) =
+                            self.q(q, Kind::Acceleration, &format!("limits.peak.{name}.max"))
+                        {
                             out.peak[k].max_g = Some(x / G);
                         }
                     }
                     if let Some(q) = &a.min {
-                        if let Some(x) = self.q(q, Kind::Acceleration, &format!("limits.peak.{name}.min")) {
+                        if let Some(x) =
+                            self.q(q, Kind::Acceleration, &format!("limits.peak.{name}.min"))
+                        {
                             out.peak[k].min_g = Some(x / G);
                         }
                     }
                     if let (Some(hi), Some(lo)) = (out.peak[k].max_g, out.peak[k].min_g) {
                         if lo > hi {
-                            self.push(a.max.as_ref().and_then(|q| loc(&q.referenced)), &format!("limits.peak.{name}"), "min is above max");
+                            self.push(
+                                a.max.as_ref().and_then(|q| loc(&q.referenced)),
+                                &format!("limits.peak.{name}"),
+                                "min is above max",
+                            );
                         }
                     }
                 }
@@ -894,10 +1365,12 @@ impl Validator {
                 let name = ["x", "y", "z"][k];
                 if let Some(a) = axis {
                     if let Some(p) = &a.positive {
-                        out.envelope[k].positive = self.envelope_points(p, &format!("limits.envelope.{name}.positive"));
+                        out.envelope[k].positive =
+                            self.envelope_points(p, &format!("limits.envelope.{name}.positive"));
                     }
                     if let Some(p) = &a.negative {
-                        out.envelope[k].negative = self.envelope_points(p, &format!("limits.envelope.{name}.negative"));
+                        out.envelope[k].negative =
+                            self.envelope_points(p, &format!("limits.envelope.{name}.negative"));
                     }
                 }
             }
@@ -916,7 +1389,11 @@ impl Validator {
             }
             if let (Some(lo), Some(hi)) = (out.exit_speed_min_m_s, out.exit_speed_max_m_s) {
                 if lo > hi {
-                    self.push(w.min.as_ref().and_then(|q| loc(&q.referenced)), "limits.exit_speed", "min is above max");
+                    self.push(
+                        w.min.as_ref().and_then(|q| loc(&q.referenced)),
+                        "limits.exit_speed",
+                        "min is above max",
+                    );
                 }
             }
         }
@@ -930,17 +1407,23 @@ impl Validator {
             out.allow_rollback = b;
         }
         if let Some(q) = &r.max_fin_temperature {
-            out.max_fin_temperature_c = self.temperature(&Some(q.clone()), "limits.max_fin_temperature", 0.0);
+            out.max_fin_temperature_c =
+                self.temperature(&Some(q.clone()), "limits.max_fin_temperature", 0.0);
         }
         if let Some(q) = &r.max_magnet_temperature {
-            out.max_magnet_temperature_c = self.temperature(&Some(q.clone()), "limits.max_magnet_temperature", 0.0);
+            out.max_magnet_temperature_c =
+                self.temperature(&Some(q.clone()), "limits.max_magnet_temperature", 0.0);
         }
     }
 
     fn range(&mut self, r: &Option<Vec<Q>>, kind: Kind, p: &str) -> Option<Option<(f64, f64)>> {
         let Some(r) = r else { return Some(None) };
         if r.len() != 2 {
-            self.push(r.first().and_then(|q| loc(&q.referenced)), p, "give [low, high]");
+            self.push(
+                r.first().and_then(|q| loc(&q.referenced)),
+                p,
+                "give [low, high]",
+            );
             return None;
         }
         let lo = self.q(&r[0], kind, &format!("{p}[0]"))?;
@@ -952,23 +1435,55 @@ impl Validator {
         Some(Some((lo, hi)))
     }
 
-    fn generate(&mut self, g: &RawGenerate, listed: &[Case], nominal: &Case, sections: &[Section], zone_end_m: f64, vehicle_length_m: f64) -> Vec<Case> {
+    fn generate(
+        &mut self,
+        g: &RawGenerate,
+        listed: &[Case],
+        nominal: &Case,
+        sections: &[Section],
+        zone_end_m: f64,
+        vehicle_length_m: f64,
+    ) -> Vec<Case> {
         let mut base: Vec<Case> = listed.to_vec();
         let mut out = Vec::new();
         let corners = (
-            self.range(&g.corners.as_ref().and_then(|c| c.mass.clone()), Kind::Mass, "generate.corners.mass"),
-            self.range(&g.corners.as_ref().and_then(|c| c.fin_temp.clone()), Kind::Temperature, "generate.corners.fin_temp"),
-            self.range(&g.corners.as_ref().and_then(|c| c.magnet_temp.clone()), Kind::Temperature, "generate.corners.magnet_temp"),
-            self.range(&g.corners.as_ref().and_then(|c| c.speed.clone()), Kind::Speed, "generate.corners.speed"),
+            self.range(
+                &g.corners.as_ref().and_then(|c| c.mass.clone()),
+                Kind::Mass,
+                "generate.corners.mass",
+            ),
+            self.range(
+                &g.corners.as_ref().and_then(|c| c.fin_temp.clone()),
+                Kind::Temperature,
+                "generate.corners.fin_temp",
+            ),
+            self.range(
+                &g.corners.as_ref().and_then(|c| c.magnet_temp.clone()),
+                Kind::Temperature,
+                "generate.corners.magnet_temp",
+            ),
+            self.range(
+                &g.corners.as_ref().and_then(|c| c.speed.clone()),
+                Kind::Speed,
+                "generate.corners.speed",
+            ),
         );
         if let (Some(m), Some(f), Some(t), Some(v)) = corners {
             if g.corners.is_some() {
                 if m.is_some_and(|(lo, _)| lo <= 0.0) {
-                    self.push(None, "generate.corners.mass", "masses must be greater than zero");
+                    self.push(
+                        None,
+                        "generate.corners.mass",
+                        "masses must be greater than zero",
+                    );
                 } else {
                     let c = cases::corners(nominal, m, f, t, v);
                     if c.is_empty() {
-                        self.push(None, "generate.corners", "give at least one range (mass, fin_temp, magnet_temp, speed)");
+                        self.push(
+                            None,
+                            "generate.corners",
+                            "give at least one range (mass, fin_temp, magnet_temp, speed)",
+                        );
                     }
                     base.extend(c.iter().cloned());
                     out.extend(c);
@@ -984,7 +1499,11 @@ impl Validator {
                     .filter_map(|(i, n)| {
                         let c = base.iter().find(|c| c.name == n.value).cloned();
                         if c.is_none() {
-                            self.at(&n.referenced, &format!("generate.each_section_out_of[{i}]"), format!("no case named '{}'", n.value));
+                            self.at(
+                                &n.referenced,
+                                &format!("generate.each_section_out_of[{i}]"),
+                                format!("no case named '{}'", n.value),
+                            );
                         }
                         c
                     })
@@ -1010,7 +1529,11 @@ impl Validator {
         let mut names: Vec<&str> = listed.iter().map(|c| c.name.as_str()).collect();
         for c in &out {
             if names.contains(&c.name.as_str()) {
-                self.push(None, "generate", format!("generated case '{}' has the name of another case", c.name));
+                self.push(
+                    None,
+                    "generate",
+                    format!("generated case '{}' has the name of another case", c.name),
+                );
             }
             names.push(&c.name);
         }
@@ -1019,8 +1542,18 @@ impl Validator {
 
     fn duty(&mut self, d: &RawDuty) -> Option<Duty> {
         let interval = self.positive(&d.interval, Kind::Time, "duty.interval");
-        let film = self.q_where(&d.film_coefficient, Kind::HeatTransfer, "duty.film_coefficient", |h| h >= 0.0, "must not be negative");
-        let ambient = self.temperature(&d.ambient, "duty.ambient", crate::constants::REFERENCE_TEMPERATURE_C);
+        let film = self.q_where(
+            &d.film_coefficient,
+            Kind::HeatTransfer,
+            "duty.film_coefficient",
+            |h| h >= 0.0,
+            "must not be negative",
+        );
+        let ambient = self.temperature(
+            &d.ambient,
+            "duty.ambient",
+            crate::constants::REFERENCE_TEMPERATURE_C,
+        );
         let max_cycles = match &d.max_cycles {
             Some(m) if m.value == 0 || m.value > 100_000 => {
                 self.at(&m.referenced, "duty.max_cycles", "must be 1 to 100000");
@@ -1030,21 +1563,34 @@ impl Validator {
             None => Some(1000),
         };
         let cycles = match &d.cycles {
-            None => Some(Cycles::UntilSteady { max_cycles: max_cycles? }),
+            None => Some(Cycles::UntilSteady {
+                max_cycles: max_cycles?,
+            }),
             Some(c) => match &c.value {
                 CyclesText::Count(n) if (1..=100_000).contains(n) => Some(Cycles::Count(*n as u32)),
                 CyclesText::Count(_) => {
                     self.at(&c.referenced, "duty.cycles", "must be 1 to 100000");
                     None
                 }
-                CyclesText::Text(t) if t == "until_steady" => Some(Cycles::UntilSteady { max_cycles: max_cycles? }),
+                CyclesText::Text(t) if t == "until_steady" => Some(Cycles::UntilSteady {
+                    max_cycles: max_cycles?,
+                }),
                 CyclesText::Text(t) => {
-                    self.at(&c.referenced, "duty.cycles", format!("'{t}' is neither a number of cycles nor until_steady"));
+                    self.at(
+                        &c.referenced,
+                        "duty.cycles",
+                        format!("'{t}' is neither a number of cycles nor until_steady"),
+                    );
                     None
                 }
             },
         };
-        Some(Duty { interval_s: interval?, cycles: cycles?, ambient_c: ambient?, film_coefficient_w_m2_k: film? })
+        Some(Duty {
+            interval_s: interval?,
+            cycles: cycles?,
+            ambient_c: ambient?,
+            film_coefficient_w_m2_k: film?,
+        })
     }
 
     fn plan(&mut self, p: &RawPlan, arrangement: Arrangement) -> Option<PlanSpec> {
@@ -1064,7 +1610,11 @@ impl Validator {
             }
         }
         if p.clearances.is_empty() {
-            self.push(near, "plan.clearances", "at least one clearance setting is needed");
+            self.push(
+                near,
+                "plan.clearances",
+                "at least one clearance setting is needed",
+            );
         }
         clearances.sort_by(f64::total_cmp);
         clearances.dedup();
@@ -1072,9 +1622,17 @@ impl Validator {
             Some(q) => self.non_negative(q, Kind::Length, "plan.min_spacing"),
             None => Some(0.0),
         };
-        let (Some(ml), Some(ms)) = (module_length, min_spacing) else { return None };
+        let (Some(ml), Some(ms)) = (module_length, min_spacing) else {
+            return None;
+        };
         let slot_pitch = match &p.slot_pitch {
-            Some(q) => self.q_where(q, Kind::Length, "plan.slot_pitch", |x| x >= ml + ms - 1e-12, "must be at least the module length plus the minimum spacing"),
+            Some(q) => self.q_where(
+                q,
+                Kind::Length,
+                "plan.slot_pitch",
+                |x| x >= ml + ms - 1e-12,
+                "must be at least the module length plus the minimum spacing",
+            ),
             None => Some(ml + ms),
         };
         let (force, beta, grade) = body?;
@@ -1110,8 +1668,12 @@ fn lane_of(lane: &Option<String>) -> String {
 
 fn shifted(mount: Mount, by: f64) -> Mount {
     match mount {
-        Mount::Vehicle { offset_m } => Mount::Vehicle { offset_m: offset_m + by },
-        Mount::Track { start_m } => Mount::Track { start_m: start_m + by },
+        Mount::Vehicle { offset_m } => Mount::Vehicle {
+            offset_m: offset_m + by,
+        },
+        Mount::Track { start_m } => Mount::Track {
+            start_m: start_m + by,
+        },
     }
 }
 
