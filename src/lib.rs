@@ -8,6 +8,9 @@
 pub mod checks;
 /// Command implementations: options → library calls → output.
 pub mod cli;
+/// The tool version stamped into every output.
+pub const VERSION: &str = env!("CARGO_PKG_VERSION");
+
 /// Physical constants with their sources.
 pub mod constants;
 /// Force–speed curves of each section × fin pair.

@@ -1,8 +1,17 @@
-//! Limit checks on sampled rider-acceleration signals: resampling, Butterworth filtering and
-//! sustained-acceleration envelopes. Pure functions over sampled signals; no scenario knowledge.
+//! Limit checks: the felt acceleration in rider axes (`rider`), resampling and Butterworth
+//! filtering (`filter`), sustained-acceleration envelopes (`envelope`) — pure functions over
+//! sampled signals — and the case-by-case verdict against the scenario's limits (`limits`).
 
 /// Uniform resampling and the low-pass Butterworth filter (second-order sections).
 pub mod filter;
 
 /// The sustained-acceleration curve S(D) and piecewise-linear envelopes of allowed levels.
 pub mod envelope;
+
+/// What the rider feels: specific acceleration in rider axes, raw and filtered.
+pub mod rider;
+
+/// Verdicts of each case against the limits.
+pub mod limits;
+
+pub use limits::{verdict, CaseTemperatures, CaseVerdict, CheckRow, Verdict, Worst};

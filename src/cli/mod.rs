@@ -9,6 +9,7 @@ macro_rules! outp {
     ($buf:expr, $($arg:tt)*) => {{ use std::fmt::Write as _; let _ = write!($buf, $($arg)*); }};
 }
 
+pub mod check;
 pub mod curve;
 pub mod run;
 
@@ -33,6 +34,8 @@ pub enum Command {
     Curve(curve::CurveArgs),
     /// The vehicle's run through the zone for every case.
     Run(run::RunArgs),
+    /// Every case against the limits (exit 1 when a limit fails).
+    Check(check::CheckArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -40,6 +43,7 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
     match cli.command {
         Command::Curve(a) => curve::execute(&a),
         Command::Run(a) => run::execute(&a),
+        Command::Check(a) => check::execute(&a),
     }
 }
 
@@ -105,4 +109,12 @@ pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f6
     crate::units::from_text(crate::units::Kind::Temperature, &with_unit)
         .map(Some)
         .map_err(|e| Error::Usage(format!("{name}: {e}")))
+}
+
+/// Temperatures each case is judged on. Without a duty block: none beyond the pass itself.
+pub fn case_temperatures(s: &Scenario) -> Result<Vec<crate::checks::CaseTemperatures>, Error> {
+    Ok(vec![
+        crate::checks::CaseTemperatures::default();
+        s.cases.len()
+    ])
 }

@@ -13,8 +13,7 @@ pub const CAUTION: &str = "CAUTION: eddyzone is a concept-stage design aid. Pass
 testing and sign-off under the applicable standards (e.g. ASTM F2291, EN 13814) and local codes by licensed \
 engineers. Shipped limit values are examples, not the standards' text.";
 
-/// The tool version stamped into outputs.
-pub const VERSION: &str = env!("CARGO_PKG_VERSION");
+pub use crate::VERSION;
 
 /// Writes a file atomically: a temporary file in the same folder, then a rename, so an
 /// interrupted run leaves no half-written file.

@@ -1,0 +1,216 @@
+//! What the rider feels: the specific (felt) acceleration in rider axes, raw and filtered.
+//!
+//! Along the track the felt acceleration is (brake + resistance)/(m·g): gravity acts on rider and
+//! seat alike and is not felt. Across the track the rider feels the track-normal part of gravity,
+//! cos θ. Signs follow the usual ride convention (e.g. ASTM F2291): with the track along x (seated,
+//! facing the motion) braking is −x (thrown forward); with the track along the spine z (a tower,
+//! descending) braking presses the rider into the seat, +z.
+
+use super::filter::{resample_uniform, Butterworth, UniformSignal};
+use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+use crate::dynamics::RunResult;
+use crate::scenario::{Axis, Rider};
+use serde::Serialize;
+
+/// The felt acceleration of one run on the three rider axes, uniformly sampled, in g.
+#[derive(Debug, Clone)]
+pub struct RiderSignals {
+    /// Raw signals per axis (x, y, z).
+    pub raw: [UniformSignal; 3],
+    /// Filtered signals per axis (equal to raw when filtering is off).
+    pub filtered: [UniformSignal; 3],
+    /// Whether a filter was applied.
+    pub filter_applied: bool,
+}
+
+/// Peaks of one axis.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct AxisPeaks {
+    /// Largest raw value, g.
+    pub raw_max_g: f64,
+    /// Smallest raw value, g.
+    pub raw_min_g: f64,
+    /// Largest filtered value, g.
+    pub filtered_max_g: f64,
+    /// Smallest filtered value, g.
+    pub filtered_min_g: f64,
+}
+
+fn extremes(s: &UniformSignal) -> (f64, f64) {
+    s.values
+        .iter()
+        .fold((f64::NEG_INFINITY, f64::INFINITY), |(hi, lo), &v| {
+            (hi.max(v), lo.min(v))
+        })
+}
+
+impl RiderSignals {
+    /// Peaks per axis.
+    pub fn peaks(&self) -> [AxisPeaks; 3] {
+        std::array::from_fn(|i| {
+            let (rh, rl) = extremes(&self.raw[i]);
+            let (fh, fl) = extremes(&self.filtered[i]);
+            AxisPeaks {
+                raw_max_g: rh,
+                raw_min_g: rl,
+                filtered_max_g: fh,
+                filtered_min_g: fl,
+            }
+        })
+    }
+}
+
+/// Felt acceleration along the track and normal to it from a run's samples (inside the zone),
+/// resampled at the filter's rate and filtered (single pass) when the rider block asks for it.
+/// Returns None when the run has fewer than two samples.
+pub fn rider_signals(run: &RunResult, rider: &Rider) -> Option<RiderSignals> {
+    let mut t = Vec::with_capacity(run.samples.len());
+    let mut along = Vec::with_capacity(run.samples.len());
+    let mut normal = Vec::with_capacity(run.samples.len());
+    for s in &run.samples {
+        let dir = if s.v_m_s != 0.0 {
+            s.v_m_s.signum()
+        } else {
+            1.0
+        };
+        // Specific force along the direction of travel, in g (negative while braking).
+        let f = dir * (s.brake_force_n + s.resistance_force_n) / (run.mass_kg * G);
+        if t.last().is_some_and(|&l: &f64| s.t_s < l) {
+            continue;
+        }
+        t.push(s.t_s);
+        along.push(f);
+        normal.push(s.cos_theta);
+    }
+    if t.len() < 2 || t[t.len() - 1] <= t[0] {
+        return None;
+    }
+    let rate = rider.filter.map(|f| f.sample_rate_hz).unwrap_or(1000.0);
+    let dt = 1.0 / rate;
+    let along = resample_uniform(&t, &along, dt).ok()?;
+    let normal = resample_uniform(&t, &normal, dt).ok()?;
+    let zero = UniformSignal {
+        dt_s: along.dt_s,
+        t0_s: along.t0_s,
+        values: vec![0.0; along.values.len()],
+    };
+    let (x, z) = match rider.track_axis {
+        Axis::X => (along, normal),
+        // Along the spine: braking while descending presses into the seat (+z); the normal part is fore–aft.
+        _ => (
+            normal,
+            UniformSignal {
+                values: along.values.iter().map(|v| -v).collect(),
+                ..along
+            },
+        ),
+    };
+    let raw = [x, zero, z];
+    debug_assert!(raw.iter().all(|s| s.values.len() == raw[0].values.len()));
+    let (filtered, applied) = match rider.filter {
+        Some(f) => match Butterworth::lowpass(f.order, f.corner_hz, rate) {
+            Ok(b) => (
+                std::array::from_fn(|i| UniformSignal {
+                    values: b.filter(&raw[i].values),
+                    ..raw[i].clone()
+                }),
+                true,
+            ),
+            Err(_) => (raw.clone(), false),
+        },
+        None => (raw.clone(), false),
+    };
+    Some(RiderSignals {
+        raw,
+        filtered,
+        filter_applied: applied,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::dynamics::{Outcome, Sample};
+    use crate::scenario::FilterSettings;
+
+    fn run_with(samples: Vec<Sample>) -> RunResult {
+        let mut r = empty_run();
+        r.samples = samples;
+        r
+    }
+
+    fn empty_run() -> RunResult {
+        RunResult {
+            case: "c".into(),
+            mass_kg: 1000.0,
+            outcome: Outcome::Cleared,
+            reversed: false,
+            entry_speed_m_s: None,
+            exit_speed_m_s: None,
+            min_speed_m_s: None,
+            stall_position_m: None,
+            peak_decel_m_s2: None,
+            peak_decel_time_s: None,
+            peak_decel_position_m: None,
+            peak_onset_g_s: None,
+            time_in_zone_s: None,
+            entry_time_s: None,
+            braking_energy_j: 0.0,
+            resistance_energy_j: 0.0,
+            energy_residual_j: 0.0,
+            initial_energy_j: 0.0,
+            peak_brake_force_n: 0.0,
+            steps: 0,
+            rhs_evaluations: 0,
+            end_time_s: 0.0,
+            fins: vec![],
+            warnings: vec![],
+            samples: vec![],
+        }
+    }
+
+    fn sample(t: f64, brake: f64, cos: f64) -> Sample {
+        Sample {
+            t_s: t,
+            s_m: t,
+            v_m_s: 10.0,
+            a_m_s2: 0.0,
+            decel_g: 0.0,
+            onset_g_s: 0.0,
+            brake_force_n: brake,
+            gravity_force_n: 0.0,
+            resistance_force_n: 0.0,
+            cos_theta: cos,
+            overlap_m: 0.0,
+            event: false,
+        }
+    }
+
+    #[test]
+    fn braking_is_minus_x_seated_and_plus_z_on_a_tower() {
+        // 1 g of braking on 1000 kg is 9806.65 N (definition of the standard g).
+        let samples: Vec<Sample> = (0..1000)
+            .map(|i| sample(i as f64 * 1e-3, -9806.65, 1.0))
+            .collect();
+        let r = run_with(samples);
+        let seated = Rider {
+            track_axis: Axis::X,
+            filter: None,
+        };
+        let s = rider_signals(&r, &seated).unwrap();
+        assert!((s.peaks()[0].raw_min_g + 1.0).abs() < 1e-12);
+        assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
+        let tower = Rider {
+            track_axis: Axis::Z,
+            filter: Some(FilterSettings {
+                corner_hz: 5.0,
+                order: 4,
+                sample_rate_hz: 1000.0,
+            }),
+        };
+        let s = rider_signals(&r, &tower).unwrap();
+        assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
+        // A constant signal passes the filter unchanged (steady-state start).
+        assert!((s.peaks()[2].filtered_max_g - 1.0).abs() < 1e-9);
+    }
+}
