@@ -1,1 +1,38 @@
-fn main() {}
+//! One full case of each demo scenario (compute only: tables built once outside the loop), and
+//! the table build itself. Run with `cargo bench --bench run`.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use eddyzone::dynamics::{simulate_case, BrakeTables, RunOptions};
+use std::hint::black_box;
+use std::path::Path;
+
+fn demo(name: &str) -> eddyzone::scenario::Scenario {
+    eddyzone::scenario::load(
+        &Path::new(env!("CARGO_MANIFEST_DIR"))
+            .join("scenarios")
+            .join(name),
+    )
+    .expect("demo scenario loads")
+}
+
+fn bench_cases(c: &mut Criterion) {
+    for name in ["coaster-brake-run.yaml", "tower-catch-brake.yaml"] {
+        let s = demo(name);
+        let tables = BrakeTables::build(&s).expect("tables");
+        let opts = RunOptions::default();
+        let case = &s.cases[0];
+        c.bench_function(&format!("run one case: {name} / {}", case.name), |b| {
+            b.iter(|| black_box(simulate_case(&s, &tables, case, &opts).expect("runs")))
+        });
+        c.bench_function(&format!("build force tables: {name}"), |b| {
+            b.iter(|| black_box(BrakeTables::build(&s).expect("tables")))
+        });
+    }
+}
+
+criterion_group! {
+    name = benches;
+    config = Criterion::default().sample_size(20);
+    targets = bench_cases
+}
+criterion_main!(benches);

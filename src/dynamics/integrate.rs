@@ -572,7 +572,6 @@ pub fn simulate_case(
             triggered: &triggered,
         };
         let mut cont = ContinuousOutputModel::default();
-        let reached_end;
         let t_piece_start = t;
         if t_end - t > 1e-12 {
             let mut solver = Dopri5::from_param(
@@ -602,9 +601,6 @@ pub fn simulate_case(
                 })?;
             res.steps += u64::from(stats.accepted_steps);
             res.rhs_evaluations += u64::from(stats.num_eval);
-            reached_end = triggered.get().is_none();
-        } else {
-            reached_end = true;
         }
         // Where this piece ends, and why.
         let (t_stop, event) = match triggered.get() {
@@ -687,7 +683,6 @@ pub fn simulate_case(
         }
         t = t_stop;
         y = y_stop;
-        let _ = reached_end;
         match event {
             None => {
                 // Time limit (or creep deadline).
