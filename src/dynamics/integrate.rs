@@ -504,6 +504,8 @@ pub fn simulate_case(
     let mut next_sample_k: u64 = 0;
     let dt = options.sample_dt_s.max(1e-6);
     let mut creep_deadline: Option<f64> = None;
+    let mut scratch = DVector::zeros(ctx.state_len());
+    let mut onset = Onset::default();
     let mut measured_warned = false;
     let t_limit = scenario.time_limit_s;
     let mut pieces = 0usize;
@@ -653,18 +655,19 @@ pub fn simulate_case(
                 } else {
                     cont.evaluate(ts).unwrap_or_else(|| y_stop.clone())
                 };
-                if keep {
-                    let s = sample(&ctx, &frozen, ts, &ys, false);
+                if keep || in_zone {
+                    let mut s = sample(&ctx, &frozen, ts, &ys, false, &mut scratch);
+                    onset.apply(&mut s);
                     record(&mut res, &s, in_zone);
-                    res.samples.push(s);
-                } else if in_zone {
-                    let s = sample(&ctx, &frozen, ts, &ys, false);
-                    record(&mut res, &s, in_zone);
+                    if keep {
+                        res.samples.push(s);
+                    }
                 }
             }
             next_sample_k += 1;
         }
-        let s_end = sample(&ctx, &frozen, t_stop, &y_stop, true);
+        let mut s_end = sample(&ctx, &frozen, t_stop, &y_stop, true, &mut scratch);
+        onset.apply(&mut s_end);
         if in_zone {
             record(&mut res, &s_end, true);
         }
@@ -813,21 +816,11 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
     res.peak_brake_force_n = res.peak_brake_force_n.max(s.brake_force_n.abs());
 }
 
-/// Derived quantities at a state; onset is the derivative of the deceleration along the flow.
-fn sample(ctx: &Ctx, fr: &Frozen, t: f64, y: &DVector<f64>, event: bool) -> Sample {
-    let n = ctx.state_len();
-    let mut dy = DVector::zeros(n);
-    let f = ctx.eval(fr, y, Some(&mut dy));
+/// Derived quantities at a state (one right-hand-side evaluation into a reused buffer). The onset
+/// is filled in by `Onset::apply` from the previous sample.
+fn sample(ctx: &Ctx, fr: &Frozen, t: f64, y: &DVector<f64>, event: bool, dy: &mut DVector<f64>) -> Sample {
+    let f = ctx.eval(fr, y, Some(dy));
     let a = dy[1];
-    // da/dt by a central difference along the flow (the frozen law is smooth).
-    let h = 1e-6;
-    let yp = y + &dy * h;
-    let ym = y - &dy * h;
-    let mut d1 = DVector::zeros(n);
-    let mut d2 = DVector::zeros(n);
-    ctx.eval(fr, &yp, Some(&mut d1));
-    ctx.eval(fr, &ym, Some(&mut d2));
-    let jerk = (d1[1] - d2[1]) / (2.0 * h);
     let dir = if y[1] != 0.0 { y[1].signum() } else { fr.dir };
     Sample {
         t_s: t,
@@ -835,13 +828,35 @@ fn sample(ctx: &Ctx, fr: &Frozen, t: f64, y: &DVector<f64>, event: bool) -> Samp
         v_m_s: y[1],
         a_m_s2: a,
         decel_g: -a * dir / G,
-        onset_g_s: -jerk * dir / G,
+        onset_g_s: 0.0,
         brake_force_n: f.brake_n,
         gravity_force_n: f.gravity_n,
         resistance_force_n: f.resistance_n,
         cos_theta: f.cos_theta,
         overlap_m: f.overlap_m,
         event,
+    }
+}
+
+/// Onset as the backward difference of the deceleration between consecutive samples (1 ms by
+/// default): the rate of change averaged over one sample interval.
+#[derive(Default)]
+struct Onset {
+    prev: Option<(f64, f64)>,
+}
+
+impl Onset {
+    fn apply(&mut self, s: &mut Sample) {
+        if let Some((t0, d0)) = self.prev {
+            let dt = s.t_s - t0;
+            if dt > 1e-7 {
+                s.onset_g_s = (s.decel_g - d0) / dt;
+            } else {
+                // An event sample at (almost) the time of a grid sample: keep the last rate.
+                return;
+            }
+        }
+        self.prev = Some((s.t_s, s.decel_g));
     }
 }
 
