@@ -69,10 +69,8 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
             a.out.display()
         )));
     }
-    let input = std::fs::read(&a.scenario).map_err(|e| Error::Usage(format!(
-        "{}: {e}",
-        a.scenario.display()
-    )))?;
+    let input = std::fs::read(&a.scenario)
+        .map_err(|e| Error::Usage(format!("{}: {e}", a.scenario.display())))?;
     let s = load(&a.scenario)?;
     let sha: String = Sha256::digest(&input)
         .iter()
