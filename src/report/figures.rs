@@ -32,7 +32,7 @@ fn thin(points: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
     }
     let stride = n.div_ceil(MAX_POINTS_PER_SERIES);
     let mut out: Vec<(f64, f64)> = points.iter().step_by(stride).copied().collect();
-    if (n - 1) % stride != 0 {
+    if !(n - 1).is_multiple_of(stride) {
         out.push(points[n - 1]);
     }
     out
