@@ -1,6 +1,8 @@
 //! Output: tables, CSV, JSON, plots and the HTML report; every format reads the same result types.
 
 pub mod csv_out;
+pub mod figures;
+pub mod html;
 pub mod json_out;
 pub mod plots;
 pub mod text;

@@ -1,0 +1,415 @@
+//! The report's figures: [`Chart`] descriptions built from a scenario, its runs and its
+//! force–speed curves. Rendering is left to [`crate::report::plots`]; this module does no I/O.
+//!
+//! Every case keeps one colour in every figure: palette index = case index.
+
+use crate::checks::envelope::{sustained_curve, sustained_curve_below};
+use crate::checks::rider::rider_signals;
+use crate::curve::PairCurve;
+use crate::dynamics::RunResult;
+use crate::report::plots::{Band, Chart, RefLine, Series};
+use crate::scenario::{Axis, Mount, Scenario};
+
+/// One figure of the report.
+#[derive(Debug, Clone)]
+pub struct Figure {
+    /// File stem and HTML id, e.g. `"speed-position"`.
+    pub id: String,
+    /// Caption for the report.
+    pub caption: String,
+    /// The chart.
+    pub chart: Chart,
+}
+
+/// Most points kept per line (a line is thinned evenly beyond this; the ends are kept).
+pub const MAX_POINTS_PER_SERIES: usize = 1500;
+
+/// Keeps at most [`MAX_POINTS_PER_SERIES`] points, evenly spaced, always the last.
+fn thin(points: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
+    let n = points.len();
+    if n <= MAX_POINTS_PER_SERIES {
+        return points;
+    }
+    let stride = n.div_ceil(MAX_POINTS_PER_SERIES);
+    let mut out: Vec<(f64, f64)> = points.iter().step_by(stride).copied().collect();
+    if !(n - 1).is_multiple_of(stride) {
+        out.push(points[n - 1]);
+    }
+    out
+}
+
+/// The base name of a repeated element ("B-3" → "B").
+fn base_name(name: &str) -> &str {
+    match name.rsplit_once('-') {
+        Some((b, r)) if !r.is_empty() && r.chars().all(|c| c.is_ascii_digit()) => b,
+        _ => name,
+    }
+}
+
+/// Index of the rider axis along the track (0 = x, 2 = z).
+fn track_axis_index(s: &Scenario) -> usize {
+    match s.rider.track_axis {
+        Axis::X => 0,
+        Axis::Y => 1,
+        Axis::Z => 2,
+    }
+}
+
+/// Magnet sections fixed along the track, or the track fins when the magnets ride on the vehicle,
+/// as x bands in m.
+pub fn track_element_bands(s: &Scenario) -> Vec<Band> {
+    let mut bands = Vec::new();
+    for sec in &s.sections {
+        if let Mount::Track { start_m } = sec.mount {
+            bands.push(Band {
+                from: start_m,
+                to: start_m + sec.length_m,
+                label: "magnet sections".into(),
+            });
+        }
+    }
+    if bands.is_empty() {
+        for f in &s.fins {
+            if let Mount::Track { start_m } = f.mount {
+                bands.push(Band {
+                    from: start_m,
+                    to: start_m + f.length_m,
+                    label: "track fins (magnets on vehicle)".into(),
+                });
+            }
+        }
+    }
+    bands
+}
+
+/// Figure 1: speed (m/s) against front position (m) for every case, with the magnet sections
+/// shaded and the exit-speed window of the limits.
+pub fn speed_position(s: &Scenario, runs: &[RunResult]) -> Chart {
+    let series = runs
+        .iter()
+        .enumerate()
+        .map(|(i, r)| Series {
+            name: r.case.clone(),
+            points: thin(r.samples.iter().map(|p| (p.s_m, p.v_m_s)).collect()),
+            color: i,
+            dashed: false,
+        })
+        .collect();
+    let mut y_bands = Vec::new();
+    let mut h_lines = Vec::new();
+    match (s.limits.exit_speed_min_m_s, s.limits.exit_speed_max_m_s) {
+        (Some(lo), Some(hi)) => y_bands.push(Band {
+            from: lo,
+            to: hi,
+            label: format!("exit-speed window {lo}–{hi} m/s"),
+        }),
+        (Some(lo), None) => h_lines.push(RefLine {
+            at: lo,
+            label: format!("exit speed min {lo} m/s"),
+        }),
+        (None, Some(hi)) => h_lines.push(RefLine {
+            at: hi,
+            label: format!("exit speed max {hi} m/s"),
+        }),
+        (None, None) => {}
+    }
+    Chart {
+        title: "Speed along the track".into(),
+        x_label: "vehicle front position (m)".into(),
+        y_label: "speed (m/s)".into(),
+        series,
+        x_bands: track_element_bands(s),
+        y_bands,
+        h_lines,
+        ..Chart::default()
+    }
+}
+
+/// Figure 2: felt acceleration (g) along the track against time (s), raw dashed and filtered
+/// solid, with the peak limits of that rider axis.
+pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
+    let ax = track_axis_index(s);
+    let mut series = Vec::new();
+    for (i, r) in runs.iter().enumerate() {
+        let Some(sig) = rider_signals(r, &s.rider) else {
+            continue;
+        };
+        let pts = |u: &crate::checks::filter::UniformSignal| {
+            thin(
+                u.values
+                    .iter()
+                    .enumerate()
+                    .map(|(k, v)| (u.t0_s + k as f64 * u.dt_s, *v))
+                    .collect(),
+            )
+        };
+        if sig.filter_applied {
+            series.push(Series {
+                name: format!("{} raw", r.case),
+                points: pts(&sig.raw[ax]),
+                color: i,
+                dashed: true,
+            });
+        }
+        series.push(Series {
+            name: if sig.filter_applied {
+                format!("{} filtered", r.case)
+            } else {
+                r.case.clone()
+            },
+            points: pts(&sig.filtered[ax]),
+            color: i,
+            dashed: false,
+        });
+    }
+    let axis = s.rider.track_axis.name();
+    let peak = s.limits.peak[ax];
+    let mut h_lines = Vec::new();
+    if let Some(m) = peak.max_g {
+        h_lines.push(RefLine {
+            at: m,
+            label: format!("peak {axis} max {m} g"),
+        });
+    }
+    if let Some(m) = peak.min_g {
+        h_lines.push(RefLine {
+            at: m,
+            label: format!("peak {axis} min {m} g"),
+        });
+    }
+    Chart {
+        title: format!("Felt acceleration, rider axis {axis}"),
+        x_label: "time (s)".into(),
+        y_label: format!("felt acceleration {axis} (g)"),
+        series,
+        h_lines,
+        ..Chart::default()
+    }
+}
+
+/// Figure 3: sustained acceleration magnitude (g) against duration (s) for every case, on the
+/// braking side of the track axis, with the limit envelope's points as a series.
+pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
+    let ax = track_axis_index(s);
+    let env = &s.limits.envelope[ax];
+    // Braking is −x for a track along x, +z along the spine (see checks::rider).
+    let negative = match (&env.negative, &env.positive) {
+        (Some(_), _) => true,
+        (None, Some(_)) => false,
+        (None, None) => ax == 0,
+    };
+    let envelope_points = if negative {
+        env.negative.clone()
+    } else {
+        env.positive.clone()
+    };
+    let mut series = Vec::new();
+    for (i, r) in runs.iter().enumerate() {
+        let Some(sig) = rider_signals(r, &s.rider) else {
+            continue;
+        };
+        let u = &sig.filtered[ax];
+        let span = u.dt_s * (u.values.len().saturating_sub(1)) as f64;
+        let durations: Vec<f64> = (0..=200).map(|k| span * k as f64 / 200.0).collect();
+        let levels = if negative {
+            sustained_curve_below(u, &durations)
+                .into_iter()
+                .map(|v| -v)
+                .collect::<Vec<_>>()
+        } else {
+            sustained_curve(u, &durations)
+        };
+        series.push(Series {
+            name: r.case.clone(),
+            points: durations.into_iter().zip(levels).collect(),
+            color: i,
+            dashed: false,
+        });
+    }
+    if let Some(p) = envelope_points {
+        series.push(Series {
+            name: "limit envelope".into(),
+            points: p,
+            color: 6,
+            dashed: true,
+        });
+    }
+    let axis = s.rider.track_axis.name();
+    let side = if negative { "negative" } else { "positive" };
+    Chart {
+        title: format!("Sustained acceleration, axis {axis} ({side} side)"),
+        x_label: "duration sustained (s)".into(),
+        y_label: format!("sustained |acceleration| {axis} (g)"),
+        series,
+        ..Chart::default()
+    }
+}
+
+/// Figure 4 (one per distinct section × fin design): force per area (kPa) against speed (m/s),
+/// harmonic sum solid and fundamental dashed, critical speed marked and the speeds the runs met
+/// in the zone shaded. Measured force curves have no per-area form and give no figure.
+pub fn force_speed(curves: &[PairCurve], runs: &[RunResult]) -> Vec<(String, Chart)> {
+    let mut seen: Vec<(String, String)> = Vec::new();
+    let (mut vlo, mut vhi) = (f64::INFINITY, f64::NEG_INFINITY);
+    for r in runs {
+        for p in r.samples.iter().filter(|p| p.overlap_m > 0.0) {
+            vlo = vlo.min(p.v_m_s.abs());
+            vhi = vhi.max(p.v_m_s.abs());
+        }
+    }
+    let mut out = Vec::new();
+    for c in curves {
+        let key = (
+            base_name(&c.section).to_string(),
+            base_name(&c.fin).to_string(),
+        );
+        if seen.contains(&key) {
+            continue;
+        }
+        let sum: Vec<(f64, f64)> = c
+            .points
+            .iter()
+            .filter_map(|p| p.force_per_area_pa.map(|f| (p.speed_m_s, f / 1e3)))
+            .collect();
+        if sum.is_empty() {
+            continue;
+        }
+        let fundamental: Vec<(f64, f64)> = c
+            .points
+            .iter()
+            .filter_map(|p| {
+                p.force_per_area_fundamental_pa
+                    .map(|f| (p.speed_m_s, f / 1e3))
+            })
+            .collect();
+        let mut series = vec![Series {
+            name: "harmonic sum".into(),
+            points: sum,
+            color: 0,
+            dashed: false,
+        }];
+        if !fundamental.is_empty() {
+            series.push(Series {
+                name: "fundamental".into(),
+                points: fundamental,
+                color: 1,
+                dashed: true,
+            });
+        }
+        let x_bands = if vlo.is_finite() && vhi.is_finite() {
+            vec![Band {
+                from: vlo,
+                to: vhi,
+                label: format!("speeds met in the zone {vlo:.1}–{vhi:.1} m/s"),
+            }]
+        } else {
+            Vec::new()
+        };
+        let chart = Chart {
+            title: format!("Force against speed: section {} × fin {}", key.0, key.1),
+            x_label: "speed (m/s)".into(),
+            y_label: "drag force per overlap area (kPa)".into(),
+            series,
+            x_bands,
+            v_lines: vec![RefLine {
+                at: c.critical_speed_m_s,
+                label: format!("critical speed {:.2} m/s", c.critical_speed_m_s),
+            }],
+            ..Chart::default()
+        };
+        out.push((format!("{}-{}", key.0, key.1), chart));
+        seen.push(key);
+    }
+    out
+}
+
+/// Figure 5: each fin's temperature (°C) at the end of the pass, per case, as bars from the start
+/// temperature (x = fin number, cases side by side). None when no run reports fin heat.
+pub fn fin_temperatures(s: &Scenario, runs: &[RunResult]) -> Option<Chart> {
+    if runs.iter().all(|r| r.fins.is_empty()) {
+        return None;
+    }
+    let n = runs.len().max(1) as f64;
+    let series = runs
+        .iter()
+        .enumerate()
+        .map(|(i, r)| {
+            let mut pts = Vec::new();
+            for (k, f) in r.fins.iter().enumerate() {
+                let x = (k + 1) as f64 + 0.7 * ((i as f64 + 0.5) / n - 0.5);
+                pts.push((x, f.start_temp_c));
+                pts.push((x, f.end_temp_c));
+                pts.push((f64::NAN, f64::NAN));
+            }
+            Series {
+                name: r.case.clone(),
+                points: pts,
+                color: i,
+                dashed: false,
+            }
+        })
+        .collect();
+    let h_lines = s
+        .limits
+        .max_fin_temperature_c
+        .map(|t| RefLine {
+            at: t,
+            label: format!("fin limit {t} °C"),
+        })
+        .into_iter()
+        .collect();
+    Some(Chart {
+        title: "Fin temperature at the end of the pass".into(),
+        x_label: "fin number (1 = first fin)".into(),
+        y_label: "fin temperature (°C)".into(),
+        series,
+        h_lines,
+        ..Chart::default()
+    })
+}
+
+/// Every figure of the report, in report order.
+pub fn all_figures(s: &Scenario, runs: &[RunResult], curves: &[PairCurve]) -> Vec<Figure> {
+    let mut v = vec![
+        Figure {
+            id: "speed-position".into(),
+            caption: "Speed against vehicle front position for every case; shaded: magnet \
+                      sections (or track fins); band or lines: exit-speed window of the limits."
+                .into(),
+            chart: speed_position(s, runs),
+        },
+        Figure {
+            id: "felt-acceleration".into(),
+            caption: "Felt (specific) acceleration along the track in rider axes; dashed: raw, \
+                      solid: filtered; dashed grey: peak limits."
+                .into(),
+            chart: felt_acceleration(s, runs),
+        },
+        Figure {
+            id: "sustained-acceleration".into(),
+            caption: "Sustained acceleration level against the time it is held (filtered signal), \
+                      with the limit envelope."
+                .into(),
+            chart: sustained(s, runs),
+        },
+    ];
+    for (stem, chart) in force_speed(curves, runs) {
+        v.push(Figure {
+            id: format!("force-speed-{}", crate::report::file_stem(&stem)),
+            caption: "Drag force per overlap area against speed at the first case's \
+                      temperatures; solid: harmonic sum, dashed: fundamental; dotted: critical \
+                      speed; shaded: speeds the runs met in the zone."
+                .into(),
+            chart,
+        });
+    }
+    if let Some(chart) = fin_temperatures(s, runs) {
+        v.push(Figure {
+            id: "fin-temperature".into(),
+            caption: "Fin temperature from the start to the end of the pass, per fin and case."
+                .into(),
+            chart,
+        });
+    }
+    v
+}

@@ -1,0 +1,304 @@
+//! The self-contained HTML report: one file with inline CSS and inline SVG figures, no scripts,
+//! no external fonts or addresses. Apart from the one line `<p id="generated">…</p>`, the same
+//! inputs give the same bytes.
+
+use crate::checks::Verdict;
+use crate::dynamics::RunResult;
+use crate::report::figures::Figure;
+use crate::report::text::num;
+use crate::report::{CAUTION, VERSION};
+use crate::scenario::Scenario;
+use std::fmt::Write as _;
+
+/// Everything the report shows.
+#[derive(Debug)]
+pub struct ReportInput<'a> {
+    /// The validated scenario.
+    pub scenario: &'a Scenario,
+    /// File name of the input as given.
+    pub input_name: String,
+    /// Lower-case hex SHA-256 of the input file's bytes.
+    pub input_sha256: String,
+    /// Runs, in case order.
+    pub runs: &'a [RunResult],
+    /// The verdict.
+    pub verdict: &'a Verdict,
+    /// Figures with their rendered SVG documents, in report order.
+    pub figures: Vec<(&'a Figure, String)>,
+    /// Generation time stamp text (UTC), shown only in `<p id="generated">`.
+    pub generated: String,
+}
+
+/// Escapes text for HTML element content and attribute values.
+pub fn escape(text: &str) -> String {
+    let mut o = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            '&' => o.push_str("&amp;"),
+            '<' => o.push_str("&lt;"),
+            '>' => o.push_str("&gt;"),
+            '"' => o.push_str("&quot;"),
+            '\'' => o.push_str("&#39;"),
+            _ => o.push(c),
+        }
+    }
+    o
+}
+
+/// The SVG document without any XML prolog, ready to inline.
+fn inline_svg(svg: &str) -> &str {
+    match svg.find("<svg") {
+        Some(i) => &svg[i..],
+        None => svg,
+    }
+}
+
+const STYLE: &str = "body{font-family:sans-serif;max-width:1100px;margin:1em auto;padding:0 1em;\
+color:#191919;line-height:1.4}table{border-collapse:collapse;margin:.5em 0 1em}\
+th,td{border:1px solid #bbb;padding:2px 6px;text-align:left;font-size:90%}th{background:#eee}\
+td.fail{color:#a00;font-weight:bold}td.pass{color:#060}pre{background:#f6f6f6;padding:.5em;\
+overflow:auto;font-size:85%;max-height:40em}figure{margin:1em 0}figure svg{max-width:100%;\
+height:auto}.caution{border:2px solid #a60;padding:.5em;background:#fff8ec}";
+
+/// The model, its assumptions and its limits of validity, as HTML list items.
+const MODEL_NOTES: [&str; 7] = [
+    "Drag force per area from a two-dimensional layer model: the magnet rows' field as a Fourier \
+     series of pole-pitch harmonics, eddy currents in the fin solved layer by layer (diffusion \
+     equation, travelling-field solution); force is summed over harmonics.",
+    "Two-dimensional theory: no longitudinal end effects at the entry and exit of a section; \
+     the force of a pair is the per-length force times the fin–section overlap.",
+    "Finite fin height is accounted for by the Russell–Norsworthy edge factor (R. L. Russell and \
+     K. H. Norsworthy, \"Eddy currents and wall losses in screened-rotor induction motors\", \
+     Proc. IEE 105A, 1958), which holds for low speeds and thin sheets; above the critical \
+     speed it is an approximation.",
+    "Recoil (relative) permeability of the magnets taken as 1; conductor resistivity and \
+     magnet remanence are taken at each case's temperatures.",
+    "Vehicle mass spread evenly along the vehicle length (gravity from the mean inclination \
+     under the vehicle); the vehicle is rigid.",
+    "Felt acceleration along the track is (brake + resistance)/(m g); filtered as the rider \
+     block sets (Butterworth low-pass).",
+    "Concept-stage estimates: validity ends where the geometry leaves the thin-fin, small-gap \
+     regime or where measured force curves are extrapolated beyond their range.",
+];
+
+fn verdict_table(v: &Verdict, out: &mut String) {
+    out.push_str(
+        "<table id=\"case-table\">\n<tr><th>case</th><th>check</th><th>axis</th><th>value</th>\
+         <th>limit</th><th>margin</th><th>unit</th><th>result</th></tr>\n",
+    );
+    for c in &v.cases {
+        if c.checks.is_empty() {
+            let _ = writeln!(
+                out,
+                "<tr><td>{}</td><td>(no limits)</td><td></td><td></td><td></td><td></td><td></td>\
+                 <td class=\"pass\">pass</td></tr>",
+                escape(&c.case)
+            );
+        }
+        for r in &c.checks {
+            let (cls, txt) = if r.pass {
+                ("pass", "pass")
+            } else {
+                ("fail", "FAIL")
+            };
+            let _ = writeln!(
+                out,
+                "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
+                 <td class=\"{cls}\">{txt}</td></tr>",
+                escape(&c.case),
+                escape(&r.check),
+                escape(r.axis.as_deref().unwrap_or("")),
+                escape(&num(r.value, 3)),
+                escape(&num(r.limit, 3)),
+                escape(&num(r.margin, 3)),
+                escape(&r.unit),
+            );
+        }
+    }
+    out.push_str("</table>\n");
+}
+
+fn runs_table(runs: &[RunResult], out: &mut String) {
+    out.push_str(
+        "<table id=\"run-table\">\n<tr><th>case</th><th>mass (kg)</th><th>outcome</th>\
+         <th>entry speed (m/s)</th><th>exit speed (m/s)</th><th>min speed (m/s)</th>\
+         <th>peak deceleration (g)</th><th>peak onset (g/s)</th><th>time in zone (s)</th>\
+         <th>braking energy (kJ)</th></tr>\n",
+    );
+    for r in runs {
+        let _ = writeln!(
+            out,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
+             <td>{}</td><td>{}</td><td>{}</td></tr>",
+            escape(&r.case),
+            num(Some(r.mass_kg), 0),
+            r.outcome.name(),
+            num(r.entry_speed_m_s, 2),
+            num(r.exit_speed_m_s, 2),
+            num(r.min_speed_m_s, 2),
+            num(
+                r.peak_decel_m_s2
+                    .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2),
+                3
+            ),
+            num(r.peak_onset_g_s, 2),
+            num(r.time_in_zone_s, 3),
+            num(Some(r.braking_energy_j / 1e3), 1),
+        );
+    }
+    out.push_str("</table>\n");
+}
+
+/// The report as one HTML document.
+pub fn report_html(r: &ReportInput<'_>) -> String {
+    let s = r.scenario;
+    let mut o = String::new();
+    let title = escape(&s.name);
+    let _ = write!(
+        o,
+        "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n\
+         <title>{title} — eddyzone report</title>\n<style>{STYLE}</style>\n</head>\n<body>\n\
+         <h1>{title}</h1>\n"
+    );
+    if let Some(d) = &s.description {
+        let _ = writeln!(o, "<p>{}</p>", escape(d.trim()));
+    }
+    let _ = writeln!(
+        o,
+        "<p class=\"caution\" id=\"caution\">{}</p>",
+        escape(CAUTION)
+    );
+    let _ = writeln!(
+        o,
+        "<table id=\"provenance\">\n<tr><th>tool</th><td>eddyzone {}</td></tr>\n\
+         <tr><th>input file</th><td>{}</td></tr>\n<tr><th>input SHA-256</th><td><code>{}</code>\
+         </td></tr>\n</table>",
+        escape(VERSION),
+        escape(&r.input_name),
+        escape(&r.input_sha256)
+    );
+    let _ = writeln!(
+        o,
+        "<p id=\"generated\">Generated {}</p>",
+        escape(&r.generated)
+    );
+
+    // Verdict.
+    let _ = writeln!(
+        o,
+        "<h2 id=\"verdict\">Verdict: {}</h2>",
+        if r.verdict.pass {
+            "PASS — every check of every case passed"
+        } else {
+            "FAIL — at least one check failed"
+        }
+    );
+    if let Some(src) = &s.limits.source {
+        let _ = writeln!(o, "<p>Limits: {}</p>", escape(src));
+    }
+    o.push_str("<h3>Cases against the limits</h3>\n");
+    verdict_table(r.verdict, &mut o);
+    o.push_str(
+        "<h3 id=\"worst\">Worst case of each check</h3>\n<table id=\"worst-table\">\n\
+         <tr><th>check</th><th>worst case</th><th>margin</th></tr>\n",
+    );
+    for w in &r.verdict.worst {
+        let _ = writeln!(
+            o,
+            "<tr><td>{}</td><td>{}</td><td>{}</td></tr>",
+            escape(&w.check),
+            escape(&w.case),
+            num(w.margin, 3)
+        );
+    }
+    o.push_str("</table>\n<h3>Runs</h3>\n");
+    runs_table(r.runs, &mut o);
+
+    // Figures.
+    o.push_str("<h2 id=\"figures\">Figures</h2>\n");
+    for (i, (f, svg)) in r.figures.iter().enumerate() {
+        let _ = writeln!(
+            o,
+            "<figure id=\"fig-{}\">\n{}\n<figcaption>Figure {}. {}</figcaption>\n</figure>",
+            escape(&f.id),
+            inline_svg(svg).trim_end(),
+            i + 1,
+            escape(&f.caption)
+        );
+    }
+
+    // Model.
+    o.push_str("<h2 id=\"model\">Model, assumptions and limits of validity</h2>\n<ul>\n");
+    for n in MODEL_NOTES {
+        let _ = writeln!(o, "<li>{}</li>", escape(n));
+    }
+    o.push_str("</ul>\n");
+
+    // Scenario as read.
+    o.push_str(
+        "<h2 id=\"scenario\">Scenario as read</h2>\n<p>The validated scenario in SI units; each \
+         field name ends in its unit (_m metres, _kg kilograms, _m_s metres per second, _t tesla, \
+         _c degrees Celsius, _s seconds, _g standard gravities, _per_k per kelvin).</p>\n",
+    );
+    let _ = writeln!(
+        o,
+        "<table id=\"inputs\">\n<tr><th>vehicle mass (kg)</th><td>{}</td></tr>\n\
+         <tr><th>vehicle length (m)</th><td>{}</td></tr>\n<tr><th>fins</th><td>{}</td></tr>\n\
+         <tr><th>magnet sections</th><td>{}</td></tr>\n<tr><th>cases</th><td>{}</td></tr>\n\
+         <tr><th>zone (m)</th><td>{} to {}</td></tr>\n</table>",
+        s.vehicle.mass_kg,
+        s.vehicle.length_m,
+        s.fins.len(),
+        s.sections.len(),
+        s.cases.len(),
+        s.zone_start_m,
+        s.zone_end_m
+    );
+    let json = serde_json::to_string_pretty(s).unwrap_or_else(|e| format!("(not shown: {e})"));
+    let _ = writeln!(o, "<pre id=\"scenario-json\">{}</pre>", escape(&json));
+    o.push_str("</body>\n</html>\n");
+    o
+}
+
+/// UTC date and time `YYYY-MM-DDTHH:MM:SSZ` of `secs` seconds after 1970-01-01T00:00:00Z.
+///
+/// Civil date from a day count after H. Hinnant, "chrono-Compatible Low-Level Date
+/// Algorithms" (`civil_from_days`), 2013.
+pub fn utc_timestamp(secs: i64) -> String {
+    let days = secs.div_euclid(86_400);
+    let rem = secs.rem_euclid(86_400);
+    let z = days + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z.rem_euclid(146_097);
+    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!(
+        "{y:04}-{m:02}-{d:02}T{:02}:{:02}:{:02}Z",
+        rem / 3600,
+        rem % 3600 / 60,
+        rem % 60
+    )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn timestamps_match_known_dates() {
+        // Reference values: POSIX time of known instants (e.g. `date -u -d @SECS`).
+        assert_eq!(utc_timestamp(0), "1970-01-01T00:00:00Z");
+        assert_eq!(utc_timestamp(951_782_400), "2000-02-29T00:00:00Z");
+        assert_eq!(utc_timestamp(1_700_000_000), "2023-11-14T22:13:20Z");
+        assert_eq!(utc_timestamp(-1), "1969-12-31T23:59:59Z");
+    }
+
+    #[test]
+    fn escapes_markup() {
+        assert_eq!(escape("a<b & \"c\""), "a&lt;b &amp; &quot;c&quot;");
+    }
+}
