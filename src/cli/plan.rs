@@ -152,5 +152,9 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     } else {
         emit(&plan_text(&s.name, &r))?;
     }
-    Ok(if r.feasible { EXIT_OK } else { EXIT_LIMIT_FAILED })
+    Ok(if r.feasible {
+        EXIT_OK
+    } else {
+        EXIT_LIMIT_FAILED
+    })
 }

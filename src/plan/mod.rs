@@ -130,10 +130,11 @@ pub fn modules_of(p: &PlanSpec, layout: &Layout) -> Vec<PlacedModule> {
         .iter()
         .enumerate()
         .filter_map(|(i, c)| {
-            c.and_then(|c| p.clearances_m.get(c)).map(|&cl| PlacedModule {
-                start_m: p.zone_start_m + i as f64 * p.slot_pitch_m,
-                clearance_m: cl,
-            })
+            c.and_then(|c| p.clearances_m.get(c))
+                .map(|&cl| PlacedModule {
+                    start_m: p.zone_start_m + i as f64 * p.slot_pitch_m,
+                    clearance_m: cl,
+                })
         })
         .collect()
 }
@@ -215,7 +216,11 @@ pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Sce
 /// Names of the base cases of the scenario's one-section-out cases.
 pub fn section_out_bases(s: &Scenario) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();
-    for c in s.cases.iter().filter(|c| c.origin == CaseOrigin::SectionOut) {
+    for c in s
+        .cases
+        .iter()
+        .filter(|c| c.origin == CaseOrigin::SectionOut)
+    {
         if let Some(b) = s
             .cases
             .iter()

@@ -66,7 +66,11 @@ fn section_yaml(out: &mut String, s: &Section, indent: &str) {
 /// written as a `generate` block that reproduces them. The zone end is written explicitly.
 pub fn scenario_yaml(s: &Scenario) -> String {
     let mut o = String::new();
-    let _ = writeln!(o, "# Written by eddyzone {} (plan --write).", crate::VERSION);
+    let _ = writeln!(
+        o,
+        "# Written by eddyzone {} (plan --write).",
+        crate::VERSION
+    );
     let _ = writeln!(o, "version: 1");
     let _ = writeln!(o, "name: {}", text(&s.name));
     if let Some(d) = &s.description {
@@ -81,7 +85,11 @@ pub fn scenario_yaml(s: &Scenario) -> String {
                 && b.density_kg_m3 == f.material.density_kg_m3
                 && b.specific_heat_j_kg_k == f.material.specific_heat_j_kg_k
         });
-        if !same && !custom.iter().any(|m: &&materials::Material| m.name == f.material.name) {
+        if !same
+            && !custom
+                .iter()
+                .any(|m: &&materials::Material| m.name == f.material.name)
+        {
             custom.push(&f.material);
         }
     }
@@ -247,10 +255,7 @@ pub fn scenario_yaml(s: &Scenario) -> String {
                     "magnet_temp" => "hot-magnet",
                     _ => "fast",
                 };
-                if corners
-                    .iter()
-                    .any(|c| c.name.split('/').any(|p| p == tag))
-                {
+                if corners.iter().any(|c| c.name.split('/').any(|p| p == tag)) {
                     let _ = writeln!(o, "    {key}: [{}, {}]", q(lo, unit), q(hi, unit));
                 }
             }
@@ -286,7 +291,10 @@ pub fn scenario_yaml(s: &Scenario) -> String {
         let _ = writeln!(o, "  source: {}", text(src));
     }
     let axes = ["x", "y", "z"];
-    if l.peak.iter().any(|p| p.max_g.is_some() || p.min_g.is_some()) {
+    if l.peak
+        .iter()
+        .any(|p| p.max_g.is_some() || p.min_g.is_some())
+    {
         let _ = writeln!(o, "  peak:");
         for (k, p) in l.peak.iter().enumerate() {
             let mut parts = Vec::new();
