@@ -8,6 +8,13 @@ use crate::scenario::{
 };
 use std::fmt::Write as _;
 
+/// A corner dimension: YAML key, unit, and the case value.
+type Dim = (
+    &'static str,
+    &'static str,
+    fn(&crate::scenario::Case) -> f64,
+);
+
 fn q(x: f64, unit: &str) -> String {
     format!("\"{x:?} {unit}\"")
 }
@@ -236,7 +243,7 @@ pub fn scenario_yaml(s: &Scenario) -> String {
         let _ = writeln!(o, "generate:");
         if !corners.is_empty() {
             let _ = writeln!(o, "  corners:");
-            let dims: [(&str, &str, fn(&crate::scenario::Case) -> f64); 4] = [
+            let dims: [Dim; 4] = [
                 ("mass", "kg", |c| c.mass_kg),
                 ("fin_temp", "°C", |c| c.fin_temp_c),
                 ("magnet_temp", "°C", |c| c.magnet_temp_c),
