@@ -23,6 +23,8 @@ pub mod error;
 pub mod materials;
 /// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
 pub mod physics;
+/// The layout planner: the shortest module layout that passes every case.
+pub mod plan;
 /// Output: tables, CSV, JSON, plots and the HTML report.
 pub mod report;
 /// The scenario file: raw YAML shapes, validation, and the validated model in SI.

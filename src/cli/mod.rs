@@ -11,6 +11,7 @@ macro_rules! outp {
 
 pub mod check;
 pub mod curve;
+pub mod plan;
 pub mod report;
 pub mod run;
 
@@ -39,6 +40,8 @@ pub enum Command {
     Check(check::CheckArgs),
     /// The HTML report with figures, profiles and summary.json.
     Report(report::ReportArgs),
+    /// The shortest module layout that passes every case (exit 1 when none does).
+    Plan(plan::PlanArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -48,6 +51,7 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Run(a) => run::execute(&a),
         Command::Check(a) => check::execute(&a),
         Command::Report(a) => report::execute(&a),
+        Command::Plan(a) => plan::execute(&a),
     }
 }
 

@@ -818,7 +818,14 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
 
 /// Derived quantities at a state (one right-hand-side evaluation into a reused buffer). The onset
 /// is filled in by `Onset::apply` from the previous sample.
-fn sample(ctx: &Ctx, fr: &Frozen, t: f64, y: &DVector<f64>, event: bool, dy: &mut DVector<f64>) -> Sample {
+fn sample(
+    ctx: &Ctx,
+    fr: &Frozen,
+    t: f64,
+    y: &DVector<f64>,
+    event: bool,
+    dy: &mut DVector<f64>,
+) -> Sample {
     let f = ctx.eval(fr, y, Some(dy));
     let a = dy[1];
     let dir = if y[1] != 0.0 { y[1].signum() } else { fr.dir };
