@@ -20,7 +20,7 @@ use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::scenario::{Case, Mount, Scenario};
 use ode_solvers::continuous_output_model::ContinuousOutputModel;
 use ode_solvers::{DVector, Dopri5, OutputType, System};
-use std::cell::Cell;
+use std::cell::{Cell, RefCell};
 
 /// Which samples a run keeps.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -262,6 +262,8 @@ struct Rhs<'a> {
     watch: &'a Watch,
     prev: Option<(f64, [f64; 6])>,
     triggered: &'a Cell<Option<(f64, f64)>>,
+    /// Accepted step ends (t, y, y'), for sampling by cubic Hermite interpolation.
+    trace: &'a RefCell<Vec<(f64, DVector<f64>, DVector<f64>)>>,
 }
 
 impl System<f64, DVector<f64>> for Rhs<'_> {
@@ -269,7 +271,8 @@ impl System<f64, DVector<f64>> for Rhs<'_> {
         self.ctx.eval(self.frozen, y, Some(dy));
     }
 
-    fn solout(&mut self, t: f64, y: &DVector<f64>, _dy: &DVector<f64>) -> bool {
+    fn solout(&mut self, t: f64, y: &DVector<f64>, dy: &DVector<f64>) -> bool {
+        self.trace.borrow_mut().push((t, y.clone(), dy.clone()));
         let mut g = [0.0; 6];
         for (i, e) in EVENTS.iter().enumerate() {
             g[i] = self.watch.g(*e, y);
@@ -281,7 +284,6 @@ impl System<f64, DVector<f64>> for Rhs<'_> {
             None => None,
         };
         self.prev = Some((t, g));
-        let _ = &self.ctx;
         if let Some(h) = hit {
             self.triggered.set(Some(h));
             return true;
@@ -566,12 +568,16 @@ pub fn simulate_case(
         for (i, e) in EVENTS.iter().enumerate() {
             g0[i] = watch.g(*e, &y);
         }
+        let mut dy0 = DVector::zeros(ctx.state_len());
+        ctx.eval(&frozen, &y, Some(&mut dy0));
+        let trace = RefCell::new(vec![(t, y.clone(), dy0)]);
         let rhs = Rhs {
             ctx: &ctx,
             frozen: &frozen,
             watch: &watch,
             prev: Some((t, g0)),
             triggered: &triggered,
+            trace: &trace,
         };
         let mut cont = ContinuousOutputModel::default();
         let t_piece_start = t;
@@ -644,18 +650,24 @@ pub fn simulate_case(
         // Samples of this piece.
         let in_zone = entered && !exited;
         let keep = options.sampling == Sampling::Full || in_zone;
+        let trace = trace.into_inner();
+        let mut step = 0usize;
+        let mut ys = y.clone();
         loop {
             let ts = next_sample_k as f64 * dt;
             if ts > t_stop {
                 break;
             }
             if ts >= t_piece_start {
-                let ys = if ts == t_piece_start {
-                    y.clone()
-                } else {
-                    cont.evaluate(ts).unwrap_or_else(|| y_stop.clone())
-                };
                 if keep || in_zone {
+                    while step + 1 < trace.len() - 1 && trace[step + 1].0 < ts {
+                        step += 1;
+                    }
+                    if trace.len() >= 2 {
+                        hermite(&trace[step], &trace[step + 1], ts, &mut ys);
+                    } else {
+                        ys.copy_from(&y);
+                    }
                     let mut s = sample(&ctx, &frozen, ts, &ys, false, &mut scratch);
                     onset.apply(&mut s);
                     record(&mut res, &s, in_zone);
@@ -842,6 +854,31 @@ fn sample(
         cos_theta: f.cos_theta,
         overlap_m: f.overlap_m,
         event,
+    }
+}
+
+/// Cubic Hermite interpolation between two accepted step ends (value and derivative at both),
+/// third-order accurate like the integrator's own continuous extension; used for the uniform
+/// samples, while events are located on the integrator's continuous output.
+fn hermite(
+    a: &(f64, DVector<f64>, DVector<f64>),
+    b: &(f64, DVector<f64>, DVector<f64>),
+    t: f64,
+    out: &mut DVector<f64>,
+) {
+    let h = b.0 - a.0;
+    if h <= 0.0 {
+        out.copy_from(&b.1);
+        return;
+    }
+    let th = ((t - a.0) / h).clamp(0.0, 1.0);
+    let (t2, t3) = (th * th, th * th * th);
+    let h00 = 2.0 * t3 - 3.0 * t2 + 1.0;
+    let h10 = t3 - 2.0 * t2 + th;
+    let h01 = -2.0 * t3 + 3.0 * t2;
+    let h11 = t3 - t2;
+    for i in 0..out.len() {
+        out[i] = h00 * a.1[i] + h10 * h * a.2[i] + h01 * b.1[i] + h11 * h * b.2[i];
     }
 }
 
