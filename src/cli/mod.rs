@@ -11,6 +11,7 @@ macro_rules! outp {
 
 pub mod check;
 pub mod curve;
+pub mod heat;
 pub mod run;
 
 use crate::error::Error;
@@ -36,6 +37,8 @@ pub enum Command {
     Run(run::RunArgs),
     /// Every case against the limits (exit 1 when a limit fails).
     Check(check::CheckArgs),
+    /// Fin heating over a pass and over the duty cycle.
+    Heat(heat::HeatArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -44,6 +47,7 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Curve(a) => curve::execute(&a),
         Command::Run(a) => run::execute(&a),
         Command::Check(a) => check::execute(&a),
+        Command::Heat(a) => heat::execute(&a),
     }
 }
 
