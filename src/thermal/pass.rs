@@ -297,3 +297,39 @@ pub fn run_pass(
     }
     Ok(PassHeat { run, fins })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Splitting the overlap at cell boundaries is a partition: at a uniform temperature the cell
+    /// powers add up to v·f(v)·overlap (additivity of the overlap length). Tolerance 1e-12 relative.
+    #[test]
+    fn cell_powers_partition_the_pair_power() {
+        let s = crate::scenario::load(std::path::Path::new(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/scenarios/tower-catch-brake.yaml"
+        )))
+        .unwrap();
+        let tables = BrakeTables::build(&s).unwrap();
+        let pairs = active_pairs(&s, &tables, &s.cases[0]);
+        let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == 0).collect();
+        let FinState::Field(field) = uniform_states(&s, 20.0, DEFAULT_CELL_M).remove(0) else {
+            panic!("track fin")
+        };
+        for x in [34.3, 35.123, 40.0, 57.9, 60.5] {
+            let v = 7.5;
+            let mut p = vec![0.0; field.temps_c.len()];
+            cell_power(&mine, &field, x, v, &mut p);
+            let direct: f64 = mine
+                .iter()
+                .map(|q| v * q.force_per_m_n(v, 20.0) * q.spec.overlap_m(x))
+                .sum();
+            let sum: f64 = p.iter().sum();
+            assert!(
+                (sum - direct).abs() <= 1e-12 * direct.abs().max(1.0),
+                "x = {x}: {sum} vs {direct}"
+            );
+        }
+    }
+}
