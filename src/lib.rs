@@ -29,5 +29,7 @@ pub mod plan;
 pub mod report;
 /// The scenario file: raw YAML shapes, validation, and the validated model in SI.
 pub mod scenario;
+/// Fin heating over a pass and over a duty cycle of dispatches.
+pub mod thermal;
 /// "value unit" strings to SI, one quantity kind per field.
 pub mod units;

@@ -11,6 +11,7 @@ macro_rules! outp {
 
 pub mod check;
 pub mod curve;
+pub mod heat;
 pub mod plan;
 pub mod report;
 pub mod run;
@@ -42,6 +43,8 @@ pub enum Command {
     Report(report::ReportArgs),
     /// The shortest module layout that passes every case (exit 1 when none does).
     Plan(plan::PlanArgs),
+    /// Fin heating over a pass and over the duty cycle.
+    Heat(heat::HeatArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -52,6 +55,7 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Check(a) => check::execute(&a),
         Command::Report(a) => report::execute(&a),
         Command::Plan(a) => plan::execute(&a),
+        Command::Heat(a) => heat::execute(&a),
     }
 }
 

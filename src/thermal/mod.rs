@@ -1,0 +1,401 @@
+//! Fin heating: over one pass (`pass`) and over a day of dispatches (`duty`).
+//!
+//! All braking energy ends up as heat in the fins. A hot fin conducts worse (σ(T) = σ20/(1 +
+//! α·(T − 20 °C))), so it brakes less below the critical speed, where f ∝ σ·v, and somewhat more
+//! above it, where the drag falls with σ·v. Pass after pass the fins cool by Newton's law between
+//! dispatches and each pass runs with the temperatures they have then, until the peak changes by
+//! less than 0.1 K per cycle.
+
+pub mod duty;
+pub mod pass;
+
+pub use duty::{cool_c, steady_peak_c, time_constant_s, STEADY_TOLERANCE_K};
+pub use pass::{run_pass, FinState, PassHeat, DEFAULT_CELL_M};
+
+use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+use crate::dynamics::{BrakeTables, DynamicsError, RunResult};
+use crate::scenario::{Case, Cycles, Mount, Scenario};
+use rayon::prelude::*;
+use serde::Serialize;
+
+/// Errors of the thermal layer.
+#[derive(Debug, Clone, thiserror::Error)]
+pub enum ThermalError {
+    /// A pass could not be run.
+    #[error(transparent)]
+    Dynamics(#[from] DynamicsError),
+    /// Bad input for the heat calculation.
+    #[error("{0}")]
+    Input(String),
+}
+
+/// Options of a heat calculation; defaults in `Default`.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct HeatOptions {
+    /// Cell length along track fins, m (default 5 cm).
+    pub cell_m: f64,
+    /// Sample interval of each pass, s (default 5 ms: the trapezoid correction of the cell
+    /// energies stays near 1e-6 on the demos, and the passes of a duty cycle stay quick; peak
+    /// deceleration is read from these samples and from the events).
+    pub sample_dt_s: f64,
+    /// The fin temperatures set the conductivity (default true). Off, every pass runs at the
+    /// case's fin temperature and only the bookkeeping heats and cools (for checks of the loop).
+    pub coupling: bool,
+}
+
+impl Default for HeatOptions {
+    fn default() -> Self {
+        Self {
+            cell_m: DEFAULT_CELL_M,
+            sample_dt_s: 5e-3,
+            coupling: true,
+        }
+    }
+}
+
+/// One dispatch of a duty cycle.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CycleRow {
+    /// 1-based.
+    pub cycle: u32,
+    /// Signed exit speed, m/s (None: no exit, e.g. a stall).
+    pub exit_speed_m_s: Option<f64>,
+    /// Peak deceleration in the zone, g.
+    pub peak_decel_g: Option<f64>,
+    /// Braking energy of the pass, J.
+    pub braking_energy_j: f64,
+    /// Highest fin temperature right after the pass, over all fins, °C.
+    pub peak_fin_temperature_c: f64,
+    /// Highest temperature right after the pass per fin (scenario order), °C.
+    pub fin_peaks_c: Vec<f64>,
+}
+
+/// Heat result of one fin.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FinHeatResult {
+    /// Fin name.
+    pub fin: String,
+    /// "vehicle" or "track".
+    pub mount: &'static str,
+    /// Energy dissipated in the fin in the first pass, J.
+    pub energy_per_pass_j: f64,
+    /// Largest rise of the first pass, K.
+    pub rise_per_pass_k: f64,
+    /// Highest temperature after the first pass, °C.
+    pub peak_temperature_c: f64,
+    /// Energy of the last pass, J.
+    pub energy_last_pass_j: f64,
+    /// Largest rise of the last pass, K.
+    pub rise_last_pass_k: f64,
+    /// Highest temperature after the last pass, °C.
+    pub steady_peak_temperature_c: f64,
+    /// First cycle whose peak differs from the previous one by less than 0.1 K (1 for a single
+    /// pass; None if never reached).
+    pub cycles_to_steady: Option<u32>,
+    /// Cooling time constant ρ·c_p·t/(2h), s (None without a duty block or with h = 0).
+    pub time_constant_s: Option<f64>,
+    /// Heated height of a track fin (active height), m (None for vehicle fins).
+    pub heated_height_m: Option<f64>,
+    /// Largest relative correction of the cell quadrature over all passes (track fins).
+    pub quadrature_correction: f64,
+}
+
+/// Temperature along a track fin after the last pass.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TrackProfile {
+    /// Fin name.
+    pub fin: String,
+    /// (cell centre s m, temperature °C).
+    pub temps: Vec<(f64, f64)>,
+    /// Rise of each cell in the last pass, K (same order).
+    pub rise_k: Vec<f64>,
+}
+
+/// Heat result of one case.
+#[derive(Debug, Clone, Serialize)]
+pub struct CaseHeat {
+    /// Case name.
+    pub case: String,
+    /// Whether a duty block drove the cycles (false: a single pass).
+    pub duty: bool,
+    /// Per fin.
+    pub fins: Vec<FinHeatResult>,
+    /// Highest fin temperature after the last pass, over all fins, °C.
+    pub steady_peak_fin_temperature_c: f64,
+    /// Highest fin temperature after the first pass, °C.
+    pub first_peak_fin_temperature_c: f64,
+    /// First cycle at which the peak over all fins changed by less than 0.1 K (None: not reached).
+    pub cycles_to_steady: Option<u32>,
+    /// Every cycle.
+    pub cycles: Vec<CycleRow>,
+    /// Exit speed of the first pass, m/s.
+    pub exit_speed_first_m_s: Option<f64>,
+    /// Exit speed of the last pass, m/s.
+    pub exit_speed_steady_m_s: Option<f64>,
+    /// Peak deceleration of the first pass, g.
+    pub peak_decel_first_g: Option<f64>,
+    /// Peak deceleration of the last pass, g.
+    pub peak_decel_steady_g: Option<f64>,
+    /// Track fins: temperature along the track after the last pass.
+    pub track_profiles: Vec<TrackProfile>,
+    /// Magnet temperature of the case, °C (an input).
+    pub magnet_temp_c: f64,
+    /// Warnings (magnets above their grade limit, no steady state within the cap, ...).
+    pub warnings: Vec<String>,
+    /// The last pass (full samples, for profiles).
+    #[serde(skip)]
+    pub last_run: Option<RunResult>,
+}
+
+fn mount_name(m: Mount) -> &'static str {
+    match m {
+        Mount::Vehicle { .. } => "vehicle",
+        Mount::Track { .. } => "track",
+    }
+}
+
+fn max_of(v: &[f64]) -> f64 {
+    v.iter().copied().fold(f64::NEG_INFINITY, f64::max)
+}
+
+/// The heat of one case over one pass (no duty block) or over the duty cycle.
+pub fn heat_case(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    options: &HeatOptions,
+) -> Result<CaseHeat, ThermalError> {
+    if !(options.cell_m.is_finite() && options.cell_m >= 1e-3) {
+        return Err(ThermalError::Input(format!(
+            "cell length {} m: must be at least 1 mm",
+            options.cell_m
+        )));
+    }
+    if !(options.sample_dt_s.is_finite()
+        && options.sample_dt_s >= 1e-5
+        && options.sample_dt_s <= 0.1)
+    {
+        return Err(ThermalError::Input(format!(
+            "sample interval {} s: must be 1e-5 to 0.1 s",
+            options.sample_dt_s
+        )));
+    }
+    let duty = scenario.duty;
+    let (max_cycles, stop_at_steady) = match duty.map(|d| d.cycles) {
+        None => (1, false),
+        Some(Cycles::Count(n)) => (n.max(1), false),
+        Some(Cycles::UntilSteady { max_cycles }) => (max_cycles.max(1), true),
+    };
+    let taus: Vec<Option<f64>> = scenario
+        .fins
+        .iter()
+        .map(|f| duty.map(|d| time_constant_s(f, d.film_coefficient_w_m2_k)))
+        .collect();
+    let n_fins = scenario.fins.len();
+    let mut states = pass::uniform_states(scenario, case.fin_temp_c, options.cell_m);
+    let mut cycles: Vec<CycleRow> = Vec::new();
+    let mut first: Option<Vec<pass::FinPass>> = None;
+    let mut last: Option<PassHeat> = None;
+    let mut fin_steady: Vec<Option<u32>> = vec![None; n_fins];
+    let mut case_steady: Option<u32> = None;
+    let mut corrections = vec![0.0f64; n_fins];
+    let mut uncoupled_cache: Option<PassHeat> = None;
+    let mut warnings = Vec::new();
+
+    for cycle in 1..=max_cycles {
+        let heat = match (&uncoupled_cache, options.coupling) {
+            // Without coupling every pass is the same run; only the bookkeeping differs.
+            (Some(c), false) => rebook(c, &states, scenario),
+            _ => {
+                let h = run_pass(
+                    scenario,
+                    tables,
+                    case,
+                    &states,
+                    options.coupling,
+                    options.sample_dt_s,
+                )?;
+                if !options.coupling {
+                    uncoupled_cache = Some(h.clone());
+                }
+                h
+            }
+        };
+        let fin_peaks: Vec<f64> = heat.fins.iter().map(|f| f.end.peak_c()).collect();
+        for (c, f) in corrections.iter_mut().zip(&heat.fins) {
+            *c = c.max(f.quadrature_correction);
+        }
+        let row = CycleRow {
+            cycle,
+            exit_speed_m_s: heat.run.exit_speed_m_s,
+            peak_decel_g: heat.run.peak_decel_m_s2.map(|a| a / G),
+            braking_energy_j: heat.run.braking_energy_j,
+            peak_fin_temperature_c: max_of(&fin_peaks),
+            fin_peaks_c: fin_peaks.clone(),
+        };
+        if let Some(prev) = cycles.last() {
+            for i in 0..n_fins {
+                if fin_steady[i].is_none()
+                    && (fin_peaks[i] - prev.fin_peaks_c[i]).abs() < STEADY_TOLERANCE_K
+                {
+                    fin_steady[i] = Some(cycle);
+                }
+            }
+            if case_steady.is_none()
+                && (row.peak_fin_temperature_c - prev.peak_fin_temperature_c).abs()
+                    < STEADY_TOLERANCE_K
+            {
+                case_steady = Some(cycle);
+            }
+        }
+        cycles.push(row);
+        if first.is_none() {
+            first = Some(heat.fins.clone());
+        }
+        states = heat.fins.iter().map(|f| f.end.clone()).collect();
+        last = Some(heat);
+        if stop_at_steady && case_steady.is_some() {
+            break;
+        }
+        if let Some(d) = duty {
+            if cycle < max_cycles {
+                for (s, tau) in states.iter_mut().zip(&taus) {
+                    duty::cool_state(s, d.ambient_c, d.interval_s, tau.unwrap_or(f64::INFINITY));
+                }
+            }
+        }
+    }
+    let (Some(first), Some(last)) = (first, last) else {
+        return Err(ThermalError::Input("no pass was run".into()));
+    };
+    if duty.is_none() {
+        case_steady = Some(1);
+        fin_steady = vec![Some(1); n_fins];
+    } else if stop_at_steady && case_steady.is_none() {
+        warnings.push(format!(
+            "no steady state within {max_cycles} cycles (peak still changing by 0.1 K or more per cycle)"
+        ));
+    }
+    let caps: Vec<pass::FinCapacity> = scenario
+        .fins
+        .iter()
+        .enumerate()
+        .map(|(i, f)| pass::fin_capacity(f, i, tables))
+        .collect::<Result<_, _>>()?;
+    let fins: Vec<FinHeatResult> = scenario
+        .fins
+        .iter()
+        .enumerate()
+        .map(|(i, f)| FinHeatResult {
+            fin: f.name.clone(),
+            mount: mount_name(f.mount),
+            energy_per_pass_j: first[i].energy_j,
+            rise_per_pass_k: max_of(&first[i].rise_k),
+            peak_temperature_c: first[i].end.peak_c(),
+            energy_last_pass_j: last.fins[i].energy_j,
+            rise_last_pass_k: max_of(&last.fins[i].rise_k),
+            steady_peak_temperature_c: last.fins[i].end.peak_c(),
+            cycles_to_steady: fin_steady[i],
+            time_constant_s: taus[i].filter(|t| t.is_finite()),
+            heated_height_m: matches!(f.mount, Mount::Track { .. })
+                .then_some(caps[i].heated_height_m),
+            quadrature_correction: corrections[i],
+        })
+        .collect();
+    let track_profiles = scenario
+        .fins
+        .iter()
+        .zip(&last.fins)
+        .filter_map(|(f, p)| match &p.end {
+            FinState::Field(field) => Some(TrackProfile {
+                fin: f.name.clone(),
+                temps: field
+                    .temps_c
+                    .iter()
+                    .enumerate()
+                    .map(|(k, t)| {
+                        let c0 = k as f64 * field.cell_m;
+                        let c1 = f.length_m.min(c0 + field.cell_m);
+                        (field.start_m + 0.5 * (c0 + c1), *t)
+                    })
+                    .collect(),
+                rise_k: p.rise_k.clone(),
+            }),
+            FinState::Lumped(_) => None,
+        })
+        .collect();
+    for sec in &scenario.sections {
+        if let Some(g) = sec.grade {
+            if case.magnet_temp_c > g.max_temperature_c() {
+                warnings.push(format!(
+                    "magnets of '{}' at {:.0} °C exceed the grade's working limit of {:.0} °C",
+                    sec.name,
+                    case.magnet_temp_c,
+                    g.max_temperature_c()
+                ));
+            }
+        }
+    }
+    warnings.extend(last.run.warnings.iter().cloned());
+    let first_row = &cycles[0];
+    let last_row = &cycles[cycles.len() - 1];
+    Ok(CaseHeat {
+        case: case.name.clone(),
+        duty: duty.is_some(),
+        steady_peak_fin_temperature_c: last_row.peak_fin_temperature_c,
+        first_peak_fin_temperature_c: first_row.peak_fin_temperature_c,
+        cycles_to_steady: case_steady,
+        exit_speed_first_m_s: first_row.exit_speed_m_s,
+        exit_speed_steady_m_s: last_row.exit_speed_m_s,
+        peak_decel_first_g: first_row.peak_decel_g,
+        peak_decel_steady_g: last_row.peak_decel_g,
+        fins,
+        track_profiles,
+        magnet_temp_c: case.magnet_temp_c,
+        warnings,
+        last_run: Some(last.run),
+        cycles,
+    })
+}
+
+/// The same pass with its rises added to new start states (no coupling: the run is unchanged).
+fn rebook(c: &PassHeat, states: &[FinState], _scenario: &Scenario) -> PassHeat {
+    let fins = c
+        .fins
+        .iter()
+        .zip(states)
+        .map(|(f, s)| {
+            let end = match s {
+                FinState::Lumped(t) => {
+                    FinState::Lumped(t + f.rise_k.first().copied().unwrap_or(0.0))
+                }
+                FinState::Field(field) => {
+                    let mut e = field.clone();
+                    e.temps_c
+                        .iter_mut()
+                        .zip(&f.rise_k)
+                        .for_each(|(t, r)| *t += r);
+                    FinState::Field(e)
+                }
+            };
+            pass::FinPass { end, ..f.clone() }
+        })
+        .collect();
+    PassHeat {
+        run: c.run.clone(),
+        fins,
+    }
+}
+
+/// The heat of every case, in parallel (rayon), in case order.
+pub fn heat_all(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    options: &HeatOptions,
+) -> Result<Vec<CaseHeat>, ThermalError> {
+    scenario
+        .cases
+        .par_iter()
+        .map(|c| heat_case(scenario, tables, c, options))
+        .collect()
+}

@@ -1,0 +1,105 @@
+//! End-to-end runs of `eddyzone heat` on every shipped scenario: the JSON parses and carries the
+//! documented keys, the profile folder holds the run and fin files, and a bad case name is a usage
+//! error (exit code 2).
+
+use std::path::PathBuf;
+use std::process::Command;
+
+fn bin() -> PathBuf {
+    PathBuf::from(env!("CARGO_BIN_EXE_eddyzone"))
+}
+
+fn shipped() -> Vec<PathBuf> {
+    let root = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("scenarios");
+    let mut v: Vec<PathBuf> = std::fs::read_dir(root)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.extension().is_some_and(|x| x == "yaml"))
+        .collect();
+    v.sort();
+    assert!(v.len() >= 2);
+    v
+}
+
+#[test]
+fn heat_json_has_the_documented_keys() {
+    for sc in shipped() {
+        let o = Command::new(bin())
+            .args(["heat", sc.to_str().unwrap(), "--json"])
+            .output()
+            .unwrap();
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        let j: serde_json::Value = serde_json::from_slice(&o.stdout).expect("JSON parses");
+        assert!(j["version"].is_string() && j["scenario"].is_string());
+        let cases = j["cases"].as_array().unwrap();
+        assert!(!cases.is_empty());
+        for c in cases {
+            for k in [
+                "case",
+                "exit_speed_first_m_s",
+                "exit_speed_steady_m_s",
+                "peak_decel_first_g",
+                "peak_decel_steady_g",
+                "steady_peak_fin_temperature_c",
+                "cycles",
+            ] {
+                assert!(c.get(k).is_some(), "{}: key {k}", sc.display());
+            }
+            let fins = c["fins"].as_array().unwrap();
+            assert!(!fins.is_empty());
+            for f in fins {
+                for k in [
+                    "fin",
+                    "energy_per_pass_j",
+                    "rise_per_pass_k",
+                    "peak_temperature_c",
+                    "steady_peak_temperature_c",
+                    "cycles_to_steady",
+                ] {
+                    assert!(f.get(k).is_some(), "{}: fin key {k}", sc.display());
+                }
+                // A fin heated by every pass ends the last pass above the ambient air (first
+                // law: it only gains heat during a pass and cools towards ambient between them).
+                let ambient = j["duty"]["ambient_c"].as_f64().unwrap_or(f64::NEG_INFINITY);
+                let steady = f["steady_peak_temperature_c"].as_f64().unwrap();
+                assert!(steady > ambient, "{steady} vs ambient {ambient}");
+                assert!(f["rise_per_pass_k"].as_f64().unwrap() > 0.0);
+            }
+        }
+    }
+}
+
+#[test]
+fn heat_profiles_and_table() {
+    let tmp = tempfile::tempdir().unwrap();
+    let tower = shipped()
+        .into_iter()
+        .find(|p| p.to_string_lossy().contains("tower"))
+        .unwrap();
+    let o = Command::new(bin())
+        .args([
+            "heat",
+            tower.to_str().unwrap(),
+            "--case",
+            "full",
+            "--profile",
+        ])
+        .arg(tmp.path())
+        .output()
+        .unwrap();
+    assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+    let out = String::from_utf8_lossy(&o.stdout);
+    assert!(out.contains("steady peak fin temperature"), "{out}");
+    let run = std::fs::read_to_string(tmp.path().join("full.csv")).unwrap();
+    assert!(run.lines().next().unwrap().contains("east-fin_temp_c"));
+    let fin = std::fs::read_to_string(tmp.path().join("fin_east-fin_full.csv")).unwrap();
+    let mut rdr = csv::Reader::from_reader(fin.as_bytes());
+    assert_eq!(rdr.headers().unwrap(), vec!["s_m", "rise_k", "temp_c"]);
+    assert!(rdr.records().count() > 100);
+
+    let bad = Command::new(bin())
+        .args(["heat", tower.to_str().unwrap(), "--case", "nope"])
+        .output()
+        .unwrap();
+    assert_eq!(bad.status.code(), Some(2));
+}

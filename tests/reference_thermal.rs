@@ -1,0 +1,208 @@
+//! Reference checks of fin heating against the first law, the lumped-capacitance cooling law and
+//! the layer theory's σ·v scaling. Each test names its source and its tolerance.
+
+use eddyzone::dynamics::BrakeTables;
+use eddyzone::scenario::{parse_str, Cycles, Duty, Mount, Scenario};
+use eddyzone::thermal::{heat_case, pass, run_pass, HeatOptions};
+use std::path::Path;
+
+fn shipped(name: &str) -> Scenario {
+    let p = Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("scenarios")
+        .join(name);
+    eddyzone::scenario::load(&p).unwrap_or_else(|e| panic!("{e}"))
+}
+
+fn rel(a: f64, b: f64) -> f64 {
+    (a - b).abs() / b.abs().max(1e-300)
+}
+
+/// First law for lumped bodies (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer,
+/// 2007, §1.3 and §5.2): with no cooling during the pass, Σ m·c_p·ΔT over the vehicle fins equals
+/// the braking energy ∫ |F_brake·v| dt. Tolerance 1e-6 relative (integrator tolerance 1e-10).
+#[test]
+fn vehicle_fins_take_up_the_braking_energy() {
+    let mut s = shipped("coaster-brake-run.yaml");
+    s.duty = None;
+    let tables = BrakeTables::build(&s).unwrap();
+    for case in &s.cases {
+        let h = heat_case(&s, &tables, case, &HeatOptions::default()).unwrap();
+        let braking = h.cycles[0].braking_energy_j;
+        assert!(braking > 1e5, "the demo brakes: {braking} J");
+        let sum: f64 = s
+            .fins
+            .iter()
+            .zip(&h.fins)
+            .map(|(f, r)| {
+                assert!(matches!(f.mount, Mount::Vehicle { .. }));
+                let m_kg = f.material.density_kg_m3 * f.length_m * f.height_m * f.thickness_m;
+                m_kg * f.material.specific_heat_j_kg_k * (r.peak_temperature_c - case.fin_temp_c)
+            })
+            .sum();
+        assert!(
+            rel(sum, braking) < 1e-6,
+            "{}: Σ m·c·ΔT = {sum} J vs {braking} J",
+            case.name
+        );
+        // Single pass: steady = first, one cycle.
+        assert_eq!(h.cycles_to_steady, Some(1));
+        assert_eq!(h.cycles.len(), 1);
+    }
+}
+
+/// First law along a track fin: ∫ ρ·c_p·t·h_a·ΔT(s) ds over the fin equals the braking energy
+/// dissipated in it, and the fins together take up the whole braking energy. h_a is the active
+/// height min(fin height, pole height) = min(230 mm, 200 mm) of the demo. Tolerance 1e-6
+/// relative. Also: the trapezoid quadrature of the cell energies on the samples, before it is
+/// scaled to the integrator's energy, agrees with it to 1e-4 (trapezoid error at 5 ms samples).
+#[test]
+fn track_fin_rise_integrates_to_the_braking_energy() {
+    let mut s = shipped("tower-catch-brake.yaml");
+    s.duty = None;
+    let tables = BrakeTables::build(&s).unwrap();
+    let case = &s.cases[0];
+    let h = heat_case(&s, &tables, case, &HeatOptions::default()).unwrap();
+    let braking = h.cycles[0].braking_energy_j;
+    let mut total = 0.0;
+    for (fin, prof) in s.fins.iter().zip(&h.track_profiles) {
+        assert_eq!(fin.name, prof.fin);
+        let m = &fin.material;
+        let active_m = fin.height_m.min(0.200);
+        let per_m = m.density_kg_m3 * m.specific_heat_j_kg_k * fin.thickness_m * active_m;
+        let cell = pass::DEFAULT_CELL_M;
+        let energy: f64 = prof
+            .rise_k
+            .iter()
+            .enumerate()
+            .map(|(k, r)| {
+                let c0 = k as f64 * cell;
+                let len = fin.length_m.min(c0 + cell) - c0;
+                per_m * r * len
+            })
+            .sum();
+        let fin_result = h.fins.iter().find(|f| f.fin == fin.name).unwrap();
+        assert!(
+            rel(energy, fin_result.energy_per_pass_j) < 1e-6,
+            "{}: ∫ρcAΔT ds = {energy} J vs {} J",
+            fin.name,
+            fin_result.energy_per_pass_j
+        );
+        assert!(fin_result.quadrature_correction < 1e-4);
+        total += energy;
+    }
+    assert!(rel(total, braking) < 1e-6, "{total} J vs {braking} J");
+}
+
+/// Periodic pulse heating of a lumped body: a constant rise ΔT per pass, cooling by Newton's law
+/// with τ = m·c_p/(h·A) = ρ·c_p·t/(2h) between passes, peaks at T_amb + (T0 − T_amb)·r^(n−1) +
+/// ΔT·(1 − rⁿ)/(1 − r), r = e^(−Δt/τ) (geometric series of lumped-capacitance cooling, Incropera
+/// & DeWitt, Fundamentals of Heat and Mass Transfer, 2007, eq. 5.6). With the force coupling off
+/// every pass deposits the same heat; after 60 cycles rⁿ < 1e-20, so the last peak must equal the
+/// closed-form steady peak to 1e-9 K (rounding of 60 cooling steps). With `until_steady` the stop
+/// rule (change < 0.1 K) leaves the peak within 0.1·r/(1 − r) K of the steady value.
+#[test]
+fn duty_loop_matches_the_geometric_series() {
+    let mut s = shipped("coaster-brake-run.yaml");
+    s.cases.truncate(1);
+    let (interval_s, h_w, amb) = (240.0, 40.0, 25.0);
+    s.duty = Some(Duty {
+        interval_s,
+        cycles: Cycles::Count(60),
+        ambient_c: amb,
+        film_coefficient_w_m2_k: h_w,
+    });
+    let tables = BrakeTables::build(&s).unwrap();
+    let case = &s.cases[0];
+    let opts = HeatOptions {
+        coupling: false,
+        ..HeatOptions::default()
+    };
+    let h = heat_case(&s, &tables, case, &opts).unwrap();
+    assert_eq!(h.cycles.len(), 60);
+    for (fin, r) in s.fins.iter().zip(&h.fins) {
+        let m = &fin.material;
+        let tau = m.density_kg_m3 * m.specific_heat_j_kg_k * fin.thickness_m / (2.0 * h_w);
+        let ratio = (-interval_s / tau).exp();
+        let steady = amb + r.rise_per_pass_k / (1.0 - ratio);
+        assert!(
+            (r.steady_peak_temperature_c - steady).abs() < 1e-9,
+            "{}: {} vs {steady}",
+            fin.name,
+            r.steady_peak_temperature_c
+        );
+        // Cycle 3 from the closed form with T0 = case fin temperature.
+        let n = 3;
+        let t3 = amb
+            + (case.fin_temp_c - amb) * ratio.powi(n - 1)
+            + r.rise_per_pass_k * (1.0 - ratio.powi(n)) / (1.0 - ratio);
+        let i = s.fins.iter().position(|f| f.name == fin.name).unwrap();
+        assert!((h.cycles[2].fin_peaks_c[i] - t3).abs() < 1e-9);
+    }
+    // Until steady: stopped by the 0.1 K rule, within its bound of the steady value.
+    s.duty = Some(Duty {
+        cycles: Cycles::UntilSteady { max_cycles: 500 },
+        ..s.duty.unwrap()
+    });
+    let h2 = heat_case(&s, &tables, &s.cases[0], &opts).unwrap();
+    let n = h2.cycles_to_steady.expect("reaches a steady state");
+    assert!(n > 2 && (n as usize) == h2.cycles.len());
+    for (r, r60) in h2.fins.iter().zip(&h.fins) {
+        let fin = s.fins.iter().find(|f| f.name == r.fin).unwrap();
+        let m = &fin.material;
+        let tau = m.density_kg_m3 * m.specific_heat_j_kg_k * fin.thickness_m / (2.0 * h_w);
+        let ratio = (-interval_s / tau).exp();
+        let bound = 0.1 * ratio / (1.0 - ratio) + 1e-9;
+        assert!((r.steady_peak_temperature_c - r60.steady_peak_temperature_c).abs() <= bound);
+    }
+}
+
+/// One coaster-like pair on a level track at a chosen entry speed.
+fn level(mass: &str, speed: &str, sections: u32) -> Scenario {
+    let text = format!(
+        r#"
+name: sign of the coupling
+vehicle:
+  mass: {mass}
+  length: 3 m
+  fins:
+    - {{ name: fin, offset: 0.5 m, length: 1.2 m, height: 180 mm, thickness: 9 mm, material: aluminium-6061-t6 }}
+sections:
+  - name: B
+    start: 10 m
+    length: 1.0 m
+    repeat: {{ count: {sections}, pitch: 1.2 m }}
+    pole_pitch: 50 mm
+    magnet_thickness: 12 mm
+    magnet_fill: 0.85
+    remanence: 1.25 T
+    clearance: 6 mm
+    pole_height: 150 mm
+start: {{ position: 5 m, speed: {speed} }}
+"#
+    );
+    parse_str(&text, "<test>", None).unwrap_or_else(|e| panic!("{e}"))
+}
+
+fn exit_speed(s: &Scenario, start_c: f64) -> f64 {
+    let tables = BrakeTables::build(s).unwrap();
+    let states = pass::uniform_states(s, start_c, pass::DEFAULT_CELL_M);
+    let p = run_pass(s, &tables, &s.cases[0], &states, true, 1e-3).unwrap();
+    p.run.exit_speed_m_s.expect("clears the zone")
+}
+
+/// The sign of the coupling. Layer theory (the drag depends on σ and v only through σ·v, and is
+/// ∝ σ·v below the critical speed): a fin at 100 °C has σ lower by 1/(1 + α·80) ≈ 0.78 for
+/// 6061, so below the critical speed (this geometry: about 8.4 m/s at 20 °C, higher when hot) it
+/// brakes less and the exit speed is higher. Well above the critical speed the drag falls as σ·v
+/// grows, so the hot fin brakes more and the exit speed is lower. Strict inequality, no tolerance.
+#[test]
+fn hot_fin_brakes_less_below_and_more_above_the_critical_speed() {
+    let slow = level("10 t", "4 m/s", 2);
+    let (cold, hot) = (exit_speed(&slow, 20.0), exit_speed(&slow, 100.0));
+    assert!(cold > 0.0 && cold < 4.0);
+    assert!(hot > cold, "below critical: hot {hot} vs cold {cold}");
+    let fast = level("2 t", "35 m/s", 1);
+    let (cold, hot) = (exit_speed(&fast, 20.0), exit_speed(&fast, 100.0));
+    assert!(cold > 12.0, "stays above the hot critical speed: {cold}");
+    assert!(hot < cold, "above critical: hot {hot} vs cold {cold}");
+}
