@@ -123,10 +123,23 @@ pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f6
         .map_err(|e| Error::Usage(format!("{name}: {e}")))
 }
 
-/// Temperatures each case is judged on. Without a duty block: none beyond the pass itself.
+/// Temperatures each case is judged on: with a fin-temperature limit, the steady peak of the duty
+/// cycle (or of the single pass without a duty block) from the thermal layer; otherwise none.
 pub fn case_temperatures(s: &Scenario) -> Result<Vec<crate::checks::CaseTemperatures>, Error> {
-    Ok(vec![
-        crate::checks::CaseTemperatures::default();
-        s.cases.len()
-    ])
+    if s.limits.max_fin_temperature_c.is_none() {
+        return Ok(vec![
+            crate::checks::CaseTemperatures::default();
+            s.cases.len()
+        ]);
+    }
+    let tables =
+        crate::dynamics::BrakeTables::build(s).map_err(|e| Error::Compute(e.to_string()))?;
+    let heat = crate::thermal::heat_all(s, &tables, &crate::thermal::HeatOptions::default())
+        .map_err(|e| Error::Compute(e.to_string()))?;
+    Ok(heat
+        .iter()
+        .map(|h| crate::checks::CaseTemperatures {
+            peak_fin_temperature_c: Some(h.steady_peak_fin_temperature_c),
+        })
+        .collect())
 }
