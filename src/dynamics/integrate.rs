@@ -256,6 +256,9 @@ impl Watch {
     }
 }
 
+/// An accepted step end: (t, y, y').
+type StepEnd = (f64, DVector<f64>, DVector<f64>);
+
 struct Rhs<'a> {
     ctx: &'a Ctx,
     frozen: &'a Frozen,
@@ -263,7 +266,7 @@ struct Rhs<'a> {
     prev: Option<(f64, [f64; 6])>,
     triggered: &'a Cell<Option<(f64, f64)>>,
     /// Accepted step ends (t, y, y'), for sampling by cubic Hermite interpolation.
-    trace: &'a RefCell<Vec<(f64, DVector<f64>, DVector<f64>)>>,
+    trace: &'a RefCell<Vec<StepEnd>>,
 }
 
 impl System<f64, DVector<f64>> for Rhs<'_> {
@@ -658,22 +661,20 @@ pub fn simulate_case(
             if ts > t_stop {
                 break;
             }
-            if ts >= t_piece_start {
-                if keep || in_zone {
-                    while step + 1 < trace.len() - 1 && trace[step + 1].0 < ts {
-                        step += 1;
-                    }
-                    if trace.len() >= 2 {
-                        hermite(&trace[step], &trace[step + 1], ts, &mut ys);
-                    } else {
-                        ys.copy_from(&y);
-                    }
-                    let mut s = sample(&ctx, &frozen, ts, &ys, false, &mut scratch);
-                    onset.apply(&mut s);
-                    record(&mut res, &s, in_zone);
-                    if keep {
-                        res.samples.push(s);
-                    }
+            if ts >= t_piece_start && (keep || in_zone) {
+                while step + 1 < trace.len() - 1 && trace[step + 1].0 < ts {
+                    step += 1;
+                }
+                if trace.len() >= 2 {
+                    hermite(&trace[step], &trace[step + 1], ts, &mut ys);
+                } else {
+                    ys.copy_from(&y);
+                }
+                let mut s = sample(&ctx, &frozen, ts, &ys, false, &mut scratch);
+                onset.apply(&mut s);
+                record(&mut res, &s, in_zone);
+                if keep {
+                    res.samples.push(s);
                 }
             }
             next_sample_k += 1;
