@@ -44,7 +44,11 @@ fn numbers() -> Vec<(usize, usize)> {
 fn try_everything(text: &str) {
     if let Ok(s) = parse_str(text, "<prop>", None) {
         if let Ok(t) = BrakeTables::build(&s) {
-            let runs: Vec<_> = s.cases.iter().filter_map(|c| simulate_case(&s, &t, c, &RunOptions::default()).ok()).collect();
+            let runs: Vec<_> = s
+                .cases
+                .iter()
+                .filter_map(|c| simulate_case(&s, &t, c, &RunOptions::default()).ok())
+                .collect();
             if runs.len() == s.cases.len() {
                 let _ = eddyzone::checks::verdict(&s, &runs, &[]);
             }

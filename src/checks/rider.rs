@@ -130,7 +130,7 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Option<RiderSignals> {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::dynamics::{Outcome, Sample};
+    use crate::dynamics::Sample;
     use crate::scenario::FilterSettings;
 
     fn run_with(samples: Vec<Sample>) -> RunResult {
@@ -140,33 +140,7 @@ mod tests {
     }
 
     fn empty_run() -> RunResult {
-        RunResult {
-            case: "c".into(),
-            mass_kg: 1000.0,
-            outcome: Outcome::Cleared,
-            reversed: false,
-            entry_speed_m_s: None,
-            exit_speed_m_s: None,
-            min_speed_m_s: None,
-            stall_position_m: None,
-            peak_decel_m_s2: None,
-            peak_decel_time_s: None,
-            peak_decel_position_m: None,
-            peak_onset_g_s: None,
-            time_in_zone_s: None,
-            entry_time_s: None,
-            braking_energy_j: 0.0,
-            resistance_energy_j: 0.0,
-            energy_residual_j: 0.0,
-            initial_energy_j: 0.0,
-            peak_brake_force_n: 0.0,
-            steps: 0,
-            rhs_evaluations: 0,
-            end_time_s: 0.0,
-            fins: vec![],
-            warnings: vec![],
-            samples: vec![],
-        }
+        RunResult::empty("c", 1000.0, 0.0)
     }
 
     fn sample(t: f64, brake: f64, cos: f64) -> Sample {

@@ -63,11 +63,7 @@ pub fn run_table(results: &[RunResult]) -> String {
             num(r.entry_speed_m_s, 2),
             num(r.exit_speed_m_s, 2),
             num(r.min_speed_m_s, 2),
-            num(
-                r.peak_decel_m_s2
-                    .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2),
-                3,
-            ),
+            num(r.peak_decel_g(), 3),
             num(r.peak_decel_time_s, 3),
             num(r.peak_decel_position_m, 2),
             num(r.peak_onset_g_s, 2),

@@ -478,33 +478,7 @@ pub fn simulate_case(
         }
     };
     let initial_dir = dir;
-    let mut res = RunResult {
-        case: case.name.clone(),
-        mass_kg: case.mass_kg,
-        outcome: Outcome::TimeLimit,
-        reversed: false,
-        entry_speed_m_s: None,
-        exit_speed_m_s: None,
-        min_speed_m_s: None,
-        stall_position_m: None,
-        peak_decel_m_s2: None,
-        peak_decel_time_s: None,
-        peak_decel_position_m: None,
-        peak_onset_g_s: None,
-        time_in_zone_s: None,
-        entry_time_s: None,
-        braking_energy_j: 0.0,
-        resistance_energy_j: 0.0,
-        energy_residual_j: 0.0,
-        initial_energy_j: initial_energy,
-        peak_brake_force_n: 0.0,
-        steps: 0,
-        rhs_evaluations: 0,
-        end_time_s: 0.0,
-        fins: vec![],
-        warnings: vec![],
-        samples: vec![],
-    };
+    let mut res = RunResult::empty(&case.name, case.mass_kg, initial_energy);
     let mut entered = false;
     let mut next_sample_k: u64 = 0;
     let dt = options.sample_dt_s.max(1e-6);

@@ -159,3 +159,42 @@ pub struct RunResult {
     #[serde(skip)]
     pub samples: Vec<Sample>,
 }
+
+impl RunResult {
+    /// A result with nothing happened yet: outcome `time_limit`, no speeds, no energy.
+    pub fn empty(case: &str, mass_kg: f64, initial_energy_j: f64) -> Self {
+        Self {
+            case: case.to_string(),
+            mass_kg,
+            outcome: Outcome::TimeLimit,
+            reversed: false,
+            entry_speed_m_s: None,
+            exit_speed_m_s: None,
+            min_speed_m_s: None,
+            stall_position_m: None,
+            peak_decel_m_s2: None,
+            peak_decel_time_s: None,
+            peak_decel_position_m: None,
+            peak_onset_g_s: None,
+            time_in_zone_s: None,
+            entry_time_s: None,
+            braking_energy_j: 0.0,
+            resistance_energy_j: 0.0,
+            energy_residual_j: 0.0,
+            initial_energy_j,
+            peak_brake_force_n: 0.0,
+            steps: 0,
+            rhs_evaluations: 0,
+            end_time_s: 0.0,
+            fins: vec![],
+            warnings: vec![],
+            samples: vec![],
+        }
+    }
+
+    /// Peak deceleration in units of standard gravity.
+    pub fn peak_decel_g(&self) -> Option<f64> {
+        self.peak_decel_m_s2
+            .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2)
+    }
+}

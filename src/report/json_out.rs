@@ -61,9 +61,7 @@ impl From<&RunResult> for RunCaseJson {
             min_speed_m_s: r.min_speed_m_s,
             stall_position_m: r.stall_position_m,
             peak_decel_m_s2: r.peak_decel_m_s2,
-            peak_decel_g: r
-                .peak_decel_m_s2
-                .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2),
+            peak_decel_g: r.peak_decel_g(),
             peak_decel_time_s: r.peak_decel_time_s,
             peak_decel_position_m: r.peak_decel_position_m,
             peak_onset_g_s: r.peak_onset_g_s,
