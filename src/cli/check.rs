@@ -25,14 +25,16 @@ pub struct CheckArgs {
 
 /// The readable verdict: one row per case and check, then the worst case of each check.
 pub fn verdict_text(v: &Verdict) -> String {
+    // `value` is the filtered signal where a filter applies; `raw` the unfiltered one.
     let mut t = Table::new(&[
-        "case", "check", "axis", "value", "limit", "margin", "unit", "result",
+        "case", "check", "axis", "value", "raw", "limit", "margin", "unit", "result",
     ]);
     for c in &v.cases {
         if c.checks.is_empty() {
             t.row(vec![
                 c.case.clone(),
                 "(no limits)".into(),
+                String::new(),
                 String::new(),
                 String::new(),
                 String::new(),
@@ -47,6 +49,7 @@ pub fn verdict_text(v: &Verdict) -> String {
                 r.check.clone(),
                 r.axis.clone().unwrap_or_default(),
                 num(r.value, 3),
+                r.raw_value.map(|v| format!("{v:.3}")).unwrap_or_default(),
                 num(r.limit, 3),
                 num(r.margin, 3),
                 r.unit.clone(),
