@@ -2,6 +2,8 @@
 //! demo: every figure file written and readable, the HTML self-contained with the case table and
 //! every figure, byte-for-byte reproducible apart from the time-stamp line, an existing folder
 //! refused without --force, and (when chromium is installed) the HTML parsed by a real browser.
+//! The heating results (figures, the Heating section, summary.json "heat") on the coaster
+//! (vehicle fins) and the tower (track fins).
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -11,13 +13,21 @@ fn bin() -> PathBuf {
 }
 
 fn scenario() -> PathBuf {
-    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("scenarios/coaster-brake-run.yaml")
+    demo("coaster-brake-run")
+}
+
+fn demo(name: &str) -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join(format!("scenarios/{name}.yaml"))
 }
 
 fn report(out: &Path, extra: &[&str], epoch: Option<&str>) -> Output {
+    report_of(&scenario(), out, extra, epoch)
+}
+
+fn report_of(scenario: &Path, out: &Path, extra: &[&str], epoch: Option<&str>) -> Output {
     let mut c = Command::new(bin());
     c.arg("report")
-        .arg(scenario())
+        .arg(scenario)
         .arg("--out")
         .arg(out)
         .args(extra);
@@ -61,12 +71,127 @@ fn without_timestamp(html: &str) -> String {
         .join("\n")
 }
 
+/// Figures of the coaster demo (fins on the vehicle, a duty block): no track-fin profile.
 const FIGURES: [&str; 4] = [
     "speed-position",
     "felt-acceleration",
     "sustained-acceleration",
-    "fin-temperature",
+    "fin-temperature-cycles",
 ];
+
+/// Asserts a PNG figure exists, has the report size and is drawn (over 1 % ink: axes, text and
+/// lines cover well over that on a drawn chart).
+fn assert_drawn(png: &Path) {
+    assert!(png.is_file(), "{png:?} written");
+    assert!(std::fs::metadata(png).unwrap().len() > 0, "{png:?} empty");
+    let (w, h, ink) = non_background_pixels(png);
+    assert_eq!((w, h), (960, 540), "{png:?} size");
+    assert!(
+        ink > (w * h) as usize / 100,
+        "{png:?}: only {ink} drawn pixels"
+    );
+}
+
+/// The heat in summary.json against the verdict and the HTML's Heating section: one entry per
+/// case in case order; the fin-temperature check judges exactly the steady peak (the heat is
+/// computed once); the steady peak is the last cycle's; and by conservation of energy (first law:
+/// the braking work is all dissipated as Joule heat in the fins) the fins' first-pass energies
+/// sum to the first pass's braking energy, within 1e-4 relative (the cell quadrature's
+/// correction stays near 1e-6). Returns the heat entries.
+fn check_heat(summary: &serde_json::Value, html: &str) -> Vec<serde_json::Value> {
+    let cases = summary["verdict"]["cases"].as_array().unwrap();
+    let heat = summary["heat"]
+        .as_array()
+        .expect("summary.json has \"heat\"");
+    assert_eq!(heat.len(), cases.len(), "heat of every case");
+    assert!(
+        html.contains("<h2 id=\"heating\">Heating</h2>"),
+        "Heating section"
+    );
+    for (c, h) in cases.iter().zip(heat) {
+        let name = c["case"].as_str().unwrap();
+        assert_eq!(h["case"].as_str(), Some(name), "heat in case order");
+        let steady = h["steady_peak_fin_temperature_c"].as_f64().unwrap();
+        let cycles = h["cycles"].as_array().unwrap();
+        assert!(!cycles.is_empty(), "{name}: at least one pass");
+        let last = cycles.last().unwrap()["peak_fin_temperature_c"]
+            .as_f64()
+            .unwrap();
+        assert_eq!(steady, last, "{name}: steady peak is the last cycle's");
+        let judged = c["checks"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|r| r["check"] == "fin_temperature")
+            .expect("fin-temperature check (the demo limits set one)");
+        assert_eq!(
+            judged["value"].as_f64(),
+            Some(steady),
+            "{name}: verdict on the steady peak"
+        );
+        let fins = h["fins"].as_array().unwrap();
+        let energy: f64 = fins
+            .iter()
+            .map(|f| f["energy_per_pass_j"].as_f64().unwrap())
+            .sum();
+        let braking = cycles[0]["braking_energy_j"].as_f64().unwrap();
+        assert!(braking > 0.0, "{name}: the pass brakes");
+        assert!(
+            (energy - braking).abs() <= 1e-4 * braking,
+            "{name}: fin energies {energy} J against braking energy {braking} J"
+        );
+        // The case's tables: summary rows and one row per fin.
+        let stem: String = name
+            .chars()
+            .map(|ch| {
+                if ch.is_ascii_alphanumeric() || ch == '-' || ch == '_' {
+                    ch
+                } else {
+                    '_'
+                }
+            })
+            .collect();
+        let table = html
+            .split(&format!("<table class=\"heat-table\" id=\"heat-{stem}\">"))
+            .nth(1)
+            .unwrap_or_else(|| panic!("{name}: heat table"));
+        let table = &table[..table.find("</table>").unwrap()];
+        for row in [
+            "cycles to steady",
+            "steady peak fin temperature (°C)",
+            "exit speed first → steady (m/s)",
+            "peak deceleration first → steady (g)",
+        ] {
+            assert!(table.contains(&format!("<th>{row}</th>")), "{name}: {row}");
+        }
+        assert!(
+            table.contains(&format!("<td>{steady:.1}</td>")),
+            "{name}: steady peak {steady:.1} °C shown"
+        );
+        let fin_table = html
+            .split(&format!(
+                "<table class=\"heat-fins\" id=\"heat-fins-{stem}\">"
+            ))
+            .nth(1)
+            .unwrap_or_else(|| panic!("{name}: fin heat table"));
+        let fin_table = &fin_table[..fin_table.find("</table>").unwrap()];
+        for f in fins {
+            let fin = f["fin"].as_str().unwrap();
+            let rise = f["rise_per_pass_k"].as_f64().unwrap();
+            assert!(rise > 0.0, "{name} {fin}: the pass heats the fin");
+            assert!(
+                fin_table.contains(&format!(
+                    "<tr><td>{fin}</td><td>{}</td><td>{:.2}</td><td>{rise:.2}</td><td>{:.1}</td></tr>",
+                    f["mount"].as_str().unwrap(),
+                    f["energy_per_pass_j"].as_f64().unwrap() / 1e3,
+                    f["steady_peak_temperature_c"].as_f64().unwrap(),
+                )),
+                "{name}: row of fin {fin}"
+            );
+        }
+    }
+    heat.clone()
+}
 
 #[test]
 fn report_writes_every_file_reproducibly() {
@@ -90,8 +215,17 @@ fn report_writes_every_file_reproducibly() {
     assert_eq!(svgs.len(), pngs.len());
     for f in FIGURES {
         assert!(a.join(format!("{f}.svg")).is_file(), "{f}.svg written");
-        assert!(a.join(format!("{f}.png")).is_file(), "{f}.png written");
+        assert_drawn(&a.join(format!("{f}.png")));
     }
+    // The per-fin bar figure is replaced by the heating figures; the coaster has no track fins.
+    assert!(
+        !a.join("fin-temperature.svg").exists(),
+        "old bar figure gone"
+    );
+    assert!(
+        !a.join("fin-temperature-track.svg").exists(),
+        "no track-fin profile without track fins"
+    );
     assert!(
         svgs.iter().any(|p| p
             .file_name()
@@ -134,6 +268,11 @@ fn report_writes_every_file_reproducibly() {
     // HTML: case table, every figure inline, no scripts or outside resources.
     let html = std::fs::read_to_string(a.join("report.html")).unwrap();
     assert!(html.contains("<table id=\"case-table\">"));
+    let heat = check_heat(&summary, &html);
+    assert!(
+        heat.iter().all(|h| h["duty"] == true),
+        "the coaster's duty block drives the cycles"
+    );
     for c in cases {
         let name = c["case"].as_str().unwrap();
         assert!(
@@ -200,6 +339,49 @@ fn report_writes_every_file_reproducibly() {
     );
 
     browser_check(&a.join("report.html"), &svgs);
+}
+
+/// The tower demo: fins along the track (magnets on the gondola) and a duty block, so both
+/// heating figures, drawn; the track profiles cover the fins' span.
+#[test]
+fn report_shows_track_fin_heating() {
+    let tmp = tempfile::tempdir().unwrap();
+    let out = tmp.path().join("tower");
+    let o = report_of(&demo("tower-catch-brake"), &out, &[], Some("1700000000"));
+    // Exit 0 whatever the verdict (report writes a failing design's report too).
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    for f in ["fin-temperature-track", "fin-temperature-cycles"] {
+        let svg = std::fs::read_to_string(out.join(format!("{f}.svg"))).unwrap();
+        assert!(
+            svg.contains("<svg") && svg.contains("</svg>"),
+            "{f}.svg is SVG"
+        );
+        assert_drawn(&out.join(format!("{f}.png")));
+    }
+    let html = std::fs::read_to_string(out.join("report.html")).unwrap();
+    assert!(html.contains("<figure id=\"fig-fin-temperature-track\">"));
+    assert!(html.contains("<figure id=\"fig-fin-temperature-cycles\">"));
+    let summary: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("summary.json")).unwrap()).unwrap();
+    for h in check_heat(&summary, &html) {
+        let profiles = h["track_profiles"].as_array().unwrap();
+        assert!(!profiles.is_empty(), "track fins give profiles");
+        for p in profiles {
+            let temps = p["temps"].as_array().unwrap();
+            assert!(temps.len() > 10, "cells along the fin");
+            let peak = temps
+                .iter()
+                .map(|t| t[1].as_f64().unwrap())
+                .fold(f64::NEG_INFINITY, f64::max);
+            // The profile's hottest cell is no hotter than the case's steady peak.
+            assert!(peak <= h["steady_peak_fin_temperature_c"].as_f64().unwrap() + 1e-9);
+        }
+    }
 }
 
 /// Loads the report in headless chromium and checks the parsed DOM, when chromium is installed.

@@ -1,8 +1,8 @@
 //! `eddyzone report SCENARIO --out DIR`: the HTML report, its figures (PNG and SVG), per-case
-//! profile CSVs and summary.json, written atomically into DIR.
+//! profile CSVs and summary.json (verdict, runs and fin heat), written atomically into DIR.
 
 use super::run::run_all;
-use super::{load, make_dir, write_file};
+use super::{load, make_dir, temperatures_from_heat, write_file};
 use crate::checks::{verdict, Verdict};
 use crate::curve::{curves, default_speeds, CurveOptions};
 use crate::dynamics::{BrakeTables, RunOptions, Sampling};
@@ -12,6 +12,7 @@ use crate::report::html::{report_html, utc_timestamp, ReportInput};
 use crate::report::json_out::RunJson;
 use crate::report::plots::{render_png, render_svg};
 use crate::report::{csv_out, file_stem};
+use crate::thermal::{heat_all, CaseHeat, HeatOptions};
 use clap::Args;
 use indicatif::{ProgressBar, ProgressDrawTarget};
 use serde::Serialize;
@@ -34,13 +35,16 @@ pub struct ReportArgs {
 /// Figure size in the files and the report, px.
 pub const FIGURE_SIZE_PX: (u32, u32) = (960, 540);
 
-/// summary.json: the verdict and the runs.
+/// summary.json: the verdict, the runs and the fin heat.
 #[derive(Debug, Serialize)]
 pub struct Summary<'a> {
     /// The verdict.
     pub verdict: &'a Verdict,
     /// The runs.
     pub run: RunJson,
+    /// Fin heat of every case (duty cycle or single pass), in case order; empty when it could
+    /// not be computed.
+    pub heat: &'a [CaseHeat],
 }
 
 /// The generation time: `SOURCE_DATE_EPOCH` (seconds, UTC) when set, else the clock.
@@ -84,9 +88,21 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         ..RunOptions::default()
     };
     let runs = run_all(&s, &options)?;
-    let temps = super::case_temperatures(&s)?;
-    let v = verdict(&s, &runs, &temps);
     let tables = BrakeTables::build(&s).map_err(compute)?;
+    bar.set_message("heating the fins");
+    // The heat is computed once: its steady peaks feed the verdict, the figures and the tables.
+    let heat = match heat_all(&s, &tables, &HeatOptions::default()) {
+        Ok(h) => h,
+        // Without a fin-temperature limit the verdict does not need the heat; the report still
+        // goes out, with the Heating section saying it was not computed.
+        Err(e) if s.limits.max_fin_temperature_c.is_none() => {
+            eprintln!("warning: fin heat not computed: {e}");
+            Vec::new()
+        }
+        Err(e) => return Err(compute(e)),
+    };
+    let temps = temperatures_from_heat(&s, &heat);
+    let v = verdict(&s, &runs, &temps);
     let c = curves(
         &s,
         &tables,
@@ -97,7 +113,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
             magnet_temp_c: None,
         },
     );
-    let figs = all_figures(&s, &runs, &c);
+    let figs = all_figures(&s, &runs, &c, &heat);
 
     make_dir(&a.out)?;
     bar.set_length((figs.len() + runs.len() + 2) as u64);
@@ -123,6 +139,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
     let summary = Summary {
         verdict: &v,
         run: RunJson::new(&s.name, &runs),
+        heat: &heat,
     };
     let json = serde_json::to_string_pretty(&summary).map_err(compute)? + "\n";
     write_file(&a.out.join("summary.json"), json.as_bytes())?;
@@ -138,6 +155,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         input_sha256: sha,
         runs: &runs,
         verdict: &v,
+        heat: &heat,
         figures: rendered,
         generated: generated(),
     });

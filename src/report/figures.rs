@@ -1,5 +1,5 @@
-//! The report's figures: [`Chart`] descriptions built from a scenario, its runs and its
-//! force–speed curves. Rendering is left to [`crate::report::plots`]; this module does no I/O.
+//! The report's figures: [`Chart`] descriptions built from a scenario, its runs, its
+//! force–speed curves and its fin heat. Rendering is left to [`crate::report::plots`]; this module does no I/O.
 //!
 //! Every case keeps one colour in every figure: palette index = case index.
 
@@ -9,6 +9,7 @@ use crate::curve::PairCurve;
 use crate::dynamics::RunResult;
 use crate::report::plots::{Band, Chart, RefLine, Series};
 use crate::scenario::{Axis, Mount, Scenario};
+use crate::thermal::CaseHeat;
 
 /// One figure of the report.
 #[derive(Debug, Clone)]
@@ -323,53 +324,104 @@ pub fn force_speed(curves: &[PairCurve], runs: &[RunResult]) -> Vec<(String, Cha
     out
 }
 
-/// Figure 5: each fin's temperature (°C) at the end of the pass, per case, as bars from the start
-/// temperature (x = fin number, cases side by side). None when no run reports fin heat.
-pub fn fin_temperatures(s: &Scenario, runs: &[RunResult]) -> Option<Chart> {
-    if runs.iter().all(|r| r.fins.is_empty()) {
-        return None;
-    }
-    let n = runs.len().max(1) as f64;
-    let series = runs
-        .iter()
-        .enumerate()
-        .map(|(i, r)| {
-            let mut pts = Vec::new();
-            for (k, f) in r.fins.iter().enumerate() {
-                let x = (k + 1) as f64 + 0.7 * ((i as f64 + 0.5) / n - 0.5);
-                pts.push((x, f.start_temp_c));
-                pts.push((x, f.end_temp_c));
-                pts.push((f64::NAN, f64::NAN));
-            }
-            Series {
-                name: r.case.clone(),
-                points: pts,
-                color: i,
-                dashed: false,
-            }
-        })
-        .collect();
-    let h_lines = s
-        .limits
+/// The fin-temperature limit of the scenario as a reference line (none without a limit).
+fn fin_limit_line(s: &Scenario) -> Vec<RefLine> {
+    s.limits
         .max_fin_temperature_c
         .map(|t| RefLine {
             at: t,
             label: format!("fin limit {t} °C"),
         })
         .into_iter()
-        .collect();
+        .collect()
+}
+
+/// Figure 5a: temperature (°C) along each track fin after the last pass of the heat calculation
+/// (the steady state of the duty cycle, or the single pass), against track position (m); one
+/// series per case (its track fins one after another, a gap between fins), with the
+/// fin-temperature limit. None when the
+/// scenario has no track fins.
+pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> {
+    let mut series = Vec::new();
+    for (i, h) in heats.iter().enumerate() {
+        // Every track fin of the case in one series, a gap (NaN point) between fins.
+        let mut points: Vec<(f64, f64)> = Vec::new();
+        for p in h.track_profiles.iter().filter(|p| !p.temps.is_empty()) {
+            if !points.is_empty() {
+                points.push((f64::NAN, f64::NAN));
+            }
+            points.extend(thin(p.temps.clone()));
+        }
+        if !points.is_empty() {
+            series.push(Series {
+                name: h.case.clone(),
+                points,
+                color: i,
+                dashed: false,
+            });
+        }
+    }
+    if series.is_empty() {
+        return None;
+    }
+    let after = if s.duty.is_some() {
+        "after the last pass of the duty cycle"
+    } else {
+        "after the pass"
+    };
     Some(Chart {
-        title: "Fin temperature at the end of the pass".into(),
-        x_label: "fin number (1 = first fin)".into(),
+        title: format!("Track fin temperature {after}"),
+        x_label: "track position (m)".into(),
         y_label: "fin temperature (°C)".into(),
         series,
-        h_lines,
+        h_lines: fin_limit_line(s),
+        ..Chart::default()
+    })
+}
+
+/// Figure 5b: the highest fin temperature (°C) right after each pass against the cycle number,
+/// per case, with the fin-temperature limit. None without a duty block.
+pub fn fin_temperature_cycles(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> {
+    s.duty?;
+    let series: Vec<Series> = heats
+        .iter()
+        .enumerate()
+        .filter(|(_, h)| !h.cycles.is_empty())
+        .map(|(i, h)| Series {
+            name: h.case.clone(),
+            points: thin(
+                h.cycles
+                    .iter()
+                    .map(|c| (f64::from(c.cycle), c.peak_fin_temperature_c))
+                    .collect(),
+            ),
+            color: i,
+            dashed: false,
+        })
+        .collect();
+    if series.is_empty() {
+        return None;
+    }
+    Some(Chart {
+        title: "Peak fin temperature over the duty cycle".into(),
+        x_label: "cycle (pass number)".into(),
+        y_label: "peak fin temperature after the pass (°C)".into(),
+        series,
+        h_lines: fin_limit_line(s),
         ..Chart::default()
     })
 }
 
 /// Every figure of the report, in report order.
-pub fn all_figures(s: &Scenario, runs: &[RunResult], curves: &[PairCurve]) -> Vec<Figure> {
+///
+/// `heats` is the heat of every case from [`crate::thermal::heat_all`], in case order (empty:
+/// no heating figures).
+pub fn all_figures(
+    s: &Scenario,
+    runs: &[RunResult],
+    curves: &[PairCurve],
+    heats: &[CaseHeat],
+) -> Vec<Figure> {
     let mut v = vec![
         Figure {
             id: "speed-position".into(),
@@ -403,10 +455,21 @@ pub fn all_figures(s: &Scenario, runs: &[RunResult], curves: &[PairCurve]) -> Ve
             chart,
         });
     }
-    if let Some(chart) = fin_temperatures(s, runs) {
+    if let Some(chart) = fin_temperature_track(s, heats) {
         v.push(Figure {
-            id: "fin-temperature".into(),
-            caption: "Fin temperature from the start to the end of the pass, per fin and case."
+            id: "fin-temperature-track".into(),
+            caption: "Temperature along the track fins after the last pass of the heat \
+                      calculation (steady duty cycle, or the single pass), one line per case \
+                      covering every track fin; dashed grey: fin-temperature limit."
+                .into(),
+            chart,
+        });
+    }
+    if let Some(chart) = fin_temperature_cycles(s, heats) {
+        v.push(Figure {
+            id: "fin-temperature-cycles".into(),
+            caption: "Highest fin temperature right after each pass against the cycle number \
+                      of the duty block, per case; dashed grey: fin-temperature limit."
                 .into(),
             chart,
         });

@@ -8,6 +8,7 @@ use crate::report::figures::Figure;
 use crate::report::text::num;
 use crate::report::{CAUTION, VERSION};
 use crate::scenario::Scenario;
+use crate::thermal::CaseHeat;
 use std::fmt::Write as _;
 
 /// Everything the report shows.
@@ -23,6 +24,8 @@ pub struct ReportInput<'a> {
     pub runs: &'a [RunResult],
     /// The verdict.
     pub verdict: &'a Verdict,
+    /// Fin heat of every case from the thermal layer, in case order (empty: not computed).
+    pub heat: &'a [CaseHeat],
     /// Figures with their rendered SVG documents, in report order.
     pub figures: Vec<(&'a Figure, String)>,
     /// Generation time stamp text (UTC), shown only in `<p id="generated">`.
@@ -149,6 +152,90 @@ fn runs_table(runs: &[RunResult], out: &mut String) {
     out.push_str("</table>\n");
 }
 
+/// "first → steady" with `digits` decimals; a dash for a missing value.
+fn first_to_steady(first: Option<f64>, steady: Option<f64>, digits: usize) -> String {
+    format!("{} → {}", num(first, digits), num(steady, digits))
+}
+
+/// The Heating section: per case the duty-cycle summary and a table of its fins.
+fn heating_section(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
+    out.push_str("<h2 id=\"heating\">Heating</h2>\n");
+    let basis = match s.duty {
+        Some(d) => {
+            let until = match d.cycles {
+                crate::scenario::Cycles::Count(n) => format!("for {n} passes"),
+                crate::scenario::Cycles::UntilSteady { max_cycles } => format!(
+                    "until the peak fin temperature changes by less than {} K per cycle (at \
+                     most {max_cycles} passes)",
+                    crate::thermal::STEADY_TOLERANCE_K
+                ),
+            };
+            format!(
+                "Passes repeated every {} s with Newton cooling to {} °C between them, {until}; \
+                 each pass runs at the fin temperatures it meets. Energy and rise per pass are \
+                 those of the first pass; steady values are those of the last.",
+                num(Some(d.interval_s), 0),
+                num(Some(d.ambient_c), 1),
+            )
+        }
+        None => "No duty block: one pass from each case's fin temperature.".to_string(),
+    };
+    let _ = writeln!(out, "<p>{}</p>", escape(&basis));
+    if heats.is_empty() {
+        out.push_str("<p>Fin heat was not computed.</p>\n");
+        return;
+    }
+    for h in heats {
+        let stem = crate::report::file_stem(&h.case);
+        let _ = writeln!(out, "<h3>Case {}</h3>", escape(&h.case));
+        let _ = writeln!(
+            out,
+            "<table class=\"heat-table\" id=\"heat-{}\">\n\
+             <tr><th>cycles to steady</th><td>{}</td></tr>\n\
+             <tr><th>steady peak fin temperature (°C)</th><td>{}</td></tr>\n\
+             <tr><th>exit speed first → steady (m/s)</th><td>{}</td></tr>\n\
+             <tr><th>peak deceleration first → steady (g)</th><td>{}</td></tr>\n</table>",
+            escape(&stem),
+            h.cycles_to_steady
+                .map(|c| c.to_string())
+                .unwrap_or_else(|| format!("not reached in {}", h.cycles.len())),
+            num(Some(h.steady_peak_fin_temperature_c), 1),
+            escape(&first_to_steady(
+                h.exit_speed_first_m_s,
+                h.exit_speed_steady_m_s,
+                2
+            )),
+            escape(&first_to_steady(
+                h.peak_decel_first_g,
+                h.peak_decel_steady_g,
+                3
+            )),
+        );
+        let _ = writeln!(
+            out,
+            "<table class=\"heat-fins\" id=\"heat-fins-{}\">\n<tr><th>fin</th><th>mount</th>\
+             <th>energy per pass (kJ)</th><th>rise per pass (K)</th><th>steady peak (°C)</th>\
+             </tr>",
+            escape(&stem)
+        );
+        for f in &h.fins {
+            let _ = writeln!(
+                out,
+                "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+                escape(&f.fin),
+                f.mount,
+                num(Some(f.energy_per_pass_j / 1e3), 2),
+                num(Some(f.rise_per_pass_k), 2),
+                num(Some(f.steady_peak_temperature_c), 1),
+            );
+        }
+        out.push_str("</table>\n");
+        for w in &h.warnings {
+            let _ = writeln!(out, "<p class=\"warning\">Warning: {}</p>", escape(w));
+        }
+    }
+}
+
 /// The report as one HTML document.
 pub fn report_html(r: &ReportInput<'_>) -> String {
     let s = r.scenario;
@@ -213,6 +300,8 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
     }
     o.push_str("</table>\n<h3>Runs</h3>\n");
     runs_table(r.runs, &mut o);
+
+    heating_section(s, r.heat, &mut o);
 
     // Figures.
     o.push_str("<h2 id=\"figures\">Figures</h2>\n");
