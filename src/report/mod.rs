@@ -27,6 +27,12 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     let mut tmp = tempfile::NamedTempFile::new_in(dir)?;
     tmp.write_all(bytes)?;
     tmp.as_file().sync_all()?;
+    // Temporary files are created private (0600); the result is an ordinary readable file.
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::PermissionsExt;
+        tmp.as_file().set_permissions(std::fs::Permissions::from_mode(0o644))?;
+    }
     tmp.persist(path).map_err(|e| e.error)?;
     Ok(())
 }
