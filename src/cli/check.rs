@@ -88,8 +88,10 @@ pub fn verdict_text(v: &Verdict) -> String {
 pub fn execute(a: &CheckArgs) -> Result<i32, Error> {
     let mut s = load(&a.scenario)?;
     select_cases(&mut s, &a.case)?;
-    let runs = run_all(&s, &RunOptions::default())?;
-    let temps: Vec<CaseTemperatures> = super::case_temperatures(&s)?;
+    let tables = super::run::tables(&s)?;
+    let runs = run_all(&s, &tables, &RunOptions::default())?;
+    let temps: Vec<CaseTemperatures> = crate::thermal::judged_temperatures(&s, &tables)
+        .map_err(|e| Error::Compute(e.to_string()))?;
     let v = verdict(&s, &runs, &temps);
     if a.json {
         emit(

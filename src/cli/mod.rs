@@ -122,37 +122,3 @@ pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f6
         .map(Some)
         .map_err(|e| Error::Usage(format!("{name}: {e}")))
 }
-
-/// Temperatures each case is judged on: with a fin-temperature limit, the steady peak of the duty
-/// cycle (or of the single pass without a duty block) from the thermal layer; otherwise none.
-pub fn case_temperatures(s: &Scenario) -> Result<Vec<crate::checks::CaseTemperatures>, Error> {
-    if s.limits.max_fin_temperature_c.is_none() {
-        return Ok(temperatures_from_heat(s, &[]));
-    }
-    let tables =
-        crate::dynamics::BrakeTables::build(s).map_err(|e| Error::Compute(e.to_string()))?;
-    let heat = crate::thermal::heat_all(s, &tables, &crate::thermal::HeatOptions::default())
-        .map_err(|e| Error::Compute(e.to_string()))?;
-    Ok(temperatures_from_heat(s, &heat))
-}
-
-/// The temperatures of [`case_temperatures`] from heat already computed by
-/// [`crate::thermal::heat_all`] (one per case, in case order): the steady peak fin temperature
-/// (°C) when the scenario has a fin-temperature limit, otherwise none. A case without heat
-/// gets no temperature.
-pub fn temperatures_from_heat(
-    s: &Scenario,
-    heat: &[crate::thermal::CaseHeat],
-) -> Vec<crate::checks::CaseTemperatures> {
-    let judged = s.limits.max_fin_temperature_c.is_some();
-    s.cases
-        .iter()
-        .map(|c| crate::checks::CaseTemperatures {
-            peak_fin_temperature_c: heat
-                .iter()
-                .find(|h| h.case == c.name)
-                .filter(|_| judged)
-                .map(|h| h.steady_peak_fin_temperature_c),
-        })
-        .collect()
-}

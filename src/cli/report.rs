@@ -2,7 +2,7 @@
 //! profile CSVs and summary.json (verdict, runs and fin heat), written atomically into DIR.
 
 use super::run::run_all;
-use super::{load, make_dir, temperatures_from_heat, write_file};
+use super::{load, make_dir, write_file};
 use crate::checks::{verdict, Verdict};
 use crate::curve::{curves, default_speeds, CurveOptions};
 use crate::dynamics::{BrakeTables, RunOptions, Sampling};
@@ -12,6 +12,7 @@ use crate::report::html::{report_html, utc_timestamp, ReportInput};
 use crate::report::json_out::RunJson;
 use crate::report::plots::{render_png, render_svg};
 use crate::report::{csv_out, file_stem};
+use crate::thermal::temperatures_from_heat;
 use crate::thermal::{heat_all, CaseHeat, HeatOptions};
 use clap::Args;
 use indicatif::{ProgressBar, ProgressDrawTarget};
@@ -87,8 +88,8 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         sampling: Sampling::Full,
         ..RunOptions::default()
     };
-    let runs = run_all(&s, &options)?;
     let tables = BrakeTables::build(&s).map_err(compute)?;
+    let runs = run_all(&s, &tables, &options)?;
     bar.set_message("heating the fins");
     // The heat is computed once: its steady peaks feed the verdict, the figures and the tables.
     let heat = match heat_all(&s, &tables, &HeatOptions::default()) {

@@ -30,12 +30,20 @@ pub struct RunArgs {
 }
 
 /// Runs every case of a scenario in parallel (both cores), results in case order.
-pub fn run_all(s: &Scenario, options: &RunOptions) -> Result<Vec<RunResult>, Error> {
-    let tables = BrakeTables::build(s).map_err(|e| Error::Compute(e.to_string()))?;
+pub fn run_all(
+    s: &Scenario,
+    tables: &BrakeTables,
+    options: &RunOptions,
+) -> Result<Vec<RunResult>, Error> {
     s.cases
         .par_iter()
-        .map(|c| simulate_case(s, &tables, c, options).map_err(|e| Error::Compute(e.to_string())))
+        .map(|c| simulate_case(s, tables, c, options).map_err(|e| Error::Compute(e.to_string())))
         .collect()
+}
+
+/// The force tables of a scenario, with the error mapped.
+pub fn tables(s: &Scenario) -> Result<BrakeTables, Error> {
+    BrakeTables::build(s).map_err(|e| Error::Compute(e.to_string()))
 }
 
 /// The readable table of run results.
@@ -98,7 +106,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
         },
         ..RunOptions::default()
     };
-    let results = run_all(&s, &options)?;
+    let results = run_all(&s, &tables(&s)?, &options)?;
     if let Some(dir) = &a.profile {
         make_dir(dir)?;
         for r in &results {

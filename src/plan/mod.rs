@@ -245,7 +245,14 @@ pub fn evaluate(s: &Scenario) -> Result<Verdict, PlanError> {
         .map(|c| simulate_case(s, &tables, c, &opts))
         .collect::<Result<Vec<_>, _>>()
         .map_err(|e| PlanError::Simulation(e.to_string()))?;
-    let temps = vec![CaseTemperatures::default(); s.cases.len()];
+    // With a duty block the fins are judged at their steady peak over the day, as `check` does;
+    // otherwise the pass's own end temperatures (vehicle fins) serve.
+    let temps = if s.duty.is_some() {
+        crate::thermal::judged_temperatures(s, &tables)
+            .map_err(|e| PlanError::Simulation(e.to_string()))?
+    } else {
+        vec![CaseTemperatures::default(); s.cases.len()]
+    };
     Ok(verdict(s, &runs, &temps))
 }
 

@@ -399,3 +399,37 @@ pub fn heat_all(
         .map(|c| heat_case(scenario, tables, c, options))
         .collect()
 }
+
+/// Temperatures each case is judged on: with a fin-temperature limit, the steady peak of the duty
+/// cycle (or of the single pass without a duty block); otherwise none.
+pub fn judged_temperatures(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+) -> Result<Vec<crate::checks::CaseTemperatures>, ThermalError> {
+    if scenario.limits.max_fin_temperature_c.is_none() {
+        return Ok(temperatures_from_heat(scenario, &[]));
+    }
+    let heat = heat_all(scenario, tables, &HeatOptions::default())?;
+    Ok(temperatures_from_heat(scenario, &heat))
+}
+
+/// The temperatures of [`judged_temperatures`] from heat already computed by [`heat_all`] (one
+/// per case, in case order): the steady peak fin temperature (°C) when the scenario has a
+/// fin-temperature limit, otherwise none. A case without heat gets no temperature.
+pub fn temperatures_from_heat(
+    scenario: &Scenario,
+    heat: &[CaseHeat],
+) -> Vec<crate::checks::CaseTemperatures> {
+    let judged = scenario.limits.max_fin_temperature_c.is_some();
+    scenario
+        .cases
+        .iter()
+        .map(|c| crate::checks::CaseTemperatures {
+            peak_fin_temperature_c: heat
+                .iter()
+                .find(|h| h.case == c.name)
+                .filter(|_| judged)
+                .map(|h| h.steady_peak_fin_temperature_c),
+        })
+        .collect()
+}
