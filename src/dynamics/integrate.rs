@@ -19,7 +19,7 @@ use super::{DynamicsError, FinHeat, Outcome, RunResult, Sample};
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::scenario::{Case, Mount, Scenario};
 use ode_solvers::continuous_output_model::ContinuousOutputModel;
-use ode_solvers::{DVector, Dopri5, OutputType, System};
+use ode_solvers::{Dopri5, OutputType, SVector, System};
 use std::cell::{Cell, RefCell};
 
 /// Which samples a run keeps.
@@ -108,7 +108,7 @@ struct Forces {
 }
 
 impl Ctx {
-    fn fin_temp(&self, fin: usize, y: &DVector<f64>) -> f64 {
+    fn fin_temp<const N: usize>(&self, fin: usize, y: &SVector<f64, N>) -> f64 {
         match self.fin_capacity_j_k[fin] {
             Some(c) => self.fin_start_c[fin] + y[4 + fin] / c,
             None => self.fin_start_c[fin],
@@ -116,7 +116,12 @@ impl Ctx {
     }
 
     /// Forces and, when `dy` is given, the derivatives.
-    fn eval(&self, fr: &Frozen, y: &DVector<f64>, dy: Option<&mut DVector<f64>>) -> Forces {
+    fn eval<const N: usize>(
+        &self,
+        fr: &Frozen,
+        y: &SVector<f64, N>,
+        dy: Option<&mut SVector<f64, N>>,
+    ) -> Forces {
         let (x, v) = (y[0], y[1]);
         let mut brake = 0.0;
         let mut overlap = 0.0;
@@ -173,10 +178,6 @@ impl Ctx {
             cos_theta,
             overlap_m: overlap,
         }
-    }
-
-    fn state_len(&self) -> usize {
-        4 + self.n_fins
     }
 }
 
@@ -242,7 +243,7 @@ struct Watch {
 }
 
 impl Watch {
-    fn g(&self, e: Event, y: &DVector<f64>) -> f64 {
+    fn g<const N: usize>(&self, e: Event, y: &SVector<f64, N>) -> f64 {
         let (x, v) = (y[0], y[1]);
         match e {
             Event::PieceLow => x - self.lo,
@@ -257,25 +258,25 @@ impl Watch {
 }
 
 /// An accepted step end: (t, y, y').
-type StepEnd = (f64, DVector<f64>, DVector<f64>);
+type StepEnd<const N: usize> = (f64, SVector<f64, N>, SVector<f64, N>);
 
-struct Rhs<'a> {
+struct Rhs<'a, const N: usize> {
     ctx: &'a Ctx,
     frozen: &'a Frozen,
     watch: &'a Watch,
     prev: Option<(f64, [f64; 6])>,
     triggered: &'a Cell<Option<(f64, f64)>>,
     /// Accepted step ends (t, y, y'), for sampling by cubic Hermite interpolation.
-    trace: &'a RefCell<Vec<StepEnd>>,
+    trace: &'a RefCell<Vec<StepEnd<N>>>,
 }
 
-impl System<f64, DVector<f64>> for Rhs<'_> {
-    fn system(&self, _t: f64, y: &DVector<f64>, dy: &mut DVector<f64>) {
+impl<const N: usize> System<f64, SVector<f64, N>> for Rhs<'_, N> {
+    fn system(&self, _t: f64, y: &SVector<f64, N>, dy: &mut SVector<f64, N>) {
         self.ctx.eval(self.frozen, y, Some(dy));
     }
 
-    fn solout(&mut self, t: f64, y: &DVector<f64>, dy: &DVector<f64>) -> bool {
-        self.trace.borrow_mut().push((t, y.clone(), dy.clone()));
+    fn solout(&mut self, t: f64, y: &SVector<f64, N>, dy: &SVector<f64, N>) -> bool {
+        self.trace.borrow_mut().push((t, *y, *dy));
         let mut g = [0.0; 6];
         for (i, e) in EVENTS.iter().enumerate() {
             g[i] = self.watch.g(*e, y);
@@ -398,15 +399,41 @@ pub fn simulate(
         .collect()
 }
 
-fn static_hold(ctx: &Ctx, fr: &Frozen, y: &DVector<f64>) -> bool {
+fn static_hold<const N: usize>(ctx: &Ctx, fr: &Frozen, y: &SVector<f64, N>) -> bool {
     let f = ctx.eval(fr, y, None);
     let static_res =
         ctx.resistance.rolling_coeff * ctx.mass_kg * G * f.cos_theta + ctx.resistance.friction_n;
     f.gravity_n.abs() <= static_res
 }
 
-/// Runs one case.
+/// Most fins a scenario may have (the state holds x, v, two energies and one energy per fin).
+pub const MAX_FINS: usize = 60;
+
+/// Runs one case. The state is a fixed-size vector (no allocation on the hot path), sized to the
+/// smallest of 8, 16, 32 or 64 entries that holds 4 + the number of fins.
 pub fn simulate_case(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    options: &RunOptions,
+) -> Result<RunResult, DynamicsError> {
+    match 4 + scenario.fins.len() {
+        n if n <= 8 => simulate_n::<8>(scenario, tables, case, options),
+        n if n <= 16 => simulate_n::<16>(scenario, tables, case, options),
+        n if n <= 32 => simulate_n::<32>(scenario, tables, case, options),
+        n if n <= 4 + MAX_FINS => simulate_n::<64>(scenario, tables, case, options),
+        _ => Err(DynamicsError::Integration {
+            case: case.name.clone(),
+            t_s: 0.0,
+            message: format!(
+                "{} fins: at most {MAX_FINS} are supported",
+                scenario.fins.len()
+            ),
+        }),
+    }
+}
+
+fn simulate_n<const N: usize>(
     scenario: &Scenario,
     tables: &BrakeTables,
     case: &Case,
@@ -458,7 +485,7 @@ pub fn simulate_case(
     let kinks = kinks(&ctx.pairs, &track);
     let pe = |m: f64, x: f64| m * G * track.mean_elevation_m(x);
 
-    let mut y = DVector::zeros(ctx.state_len());
+    let mut y = SVector::<f64, N>::zeros();
     y[0] = case.start_position_m;
     y[1] = case.start_speed_m_s;
     let mut t = 0.0;
@@ -483,7 +510,7 @@ pub fn simulate_case(
     let mut next_sample_k: u64 = 0;
     let dt = options.sample_dt_s.max(1e-6);
     let mut creep_deadline: Option<f64> = None;
-    let mut scratch = DVector::zeros(ctx.state_len());
+    let mut scratch = SVector::<f64, N>::zeros();
     let mut onset = Onset::default();
     let mut measured_warned = false;
     let t_limit = scenario.time_limit_s;
@@ -545,9 +572,9 @@ pub fn simulate_case(
         for (i, e) in EVENTS.iter().enumerate() {
             g0[i] = watch.g(*e, &y);
         }
-        let mut dy0 = DVector::zeros(ctx.state_len());
+        let mut dy0 = SVector::<f64, N>::zeros();
         ctx.eval(&frozen, &y, Some(&mut dy0));
-        let trace = RefCell::new(vec![(t, y.clone(), dy0)]);
+        let trace = RefCell::new(vec![(t, y, dy0)]);
         let rhs = Rhs {
             ctx: &ctx,
             frozen: &frozen,
@@ -556,7 +583,7 @@ pub fn simulate_case(
             triggered: &triggered,
             trace: &trace,
         };
-        let mut cont = ContinuousOutputModel::default();
+        let mut cont = ContinuousOutputModel::new();
         let t_piece_start = t;
         if t_end - t > 1e-12 {
             let mut solver = Dopri5::from_param(
@@ -564,7 +591,7 @@ pub fn simulate_case(
                 t,
                 t_end,
                 0.0,
-                y.clone(),
+                y,
                 rtol,
                 atol,
                 0.9,
@@ -619,9 +646,9 @@ pub fn simulate_case(
             None => (t_end, None),
         };
         let y_stop = if t_stop > t_piece_start {
-            cont.evaluate(t_stop).unwrap_or_else(|| y.clone())
+            cont.evaluate(t_stop).unwrap_or(y)
         } else {
-            y.clone()
+            y
         };
 
         // Samples of this piece.
@@ -629,7 +656,7 @@ pub fn simulate_case(
         let keep = options.sampling == Sampling::Full || in_zone;
         let trace = trace.into_inner();
         let mut step = 0usize;
-        let mut ys = y.clone();
+        let mut ys = y;
         loop {
             let ts = next_sample_k as f64 * dt;
             if ts > t_stop {
@@ -754,10 +781,10 @@ pub fn simulate_case(
 }
 
 #[allow(clippy::too_many_arguments)]
-fn finish(
+fn finish<const N: usize>(
     res: &mut RunResult,
     ctx: &Ctx,
-    y: &DVector<f64>,
+    y: &SVector<f64, N>,
     t: f64,
     initial_energy: f64,
     pe_end: f64,
@@ -805,13 +832,13 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
 
 /// Derived quantities at a state (one right-hand-side evaluation into a reused buffer). The onset
 /// is filled in by `Onset::apply` from the previous sample.
-fn sample(
+fn sample<const N: usize>(
     ctx: &Ctx,
     fr: &Frozen,
     t: f64,
-    y: &DVector<f64>,
+    y: &SVector<f64, N>,
     event: bool,
-    dy: &mut DVector<f64>,
+    dy: &mut SVector<f64, N>,
 ) -> Sample {
     let f = ctx.eval(fr, y, Some(dy));
     let a = dy[1];
@@ -835,12 +862,7 @@ fn sample(
 /// Cubic Hermite interpolation between two accepted step ends (value and derivative at both),
 /// third-order accurate like the integrator's own continuous extension; used for the uniform
 /// samples, while events are located on the integrator's continuous output.
-fn hermite(
-    a: &(f64, DVector<f64>, DVector<f64>),
-    b: &(f64, DVector<f64>, DVector<f64>),
-    t: f64,
-    out: &mut DVector<f64>,
-) {
+fn hermite<const N: usize>(a: &StepEnd<N>, b: &StepEnd<N>, t: f64, out: &mut SVector<f64, N>) {
     let h = b.0 - a.0;
     if h <= 0.0 {
         out.copy_from(&b.1);
