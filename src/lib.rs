@@ -1,16 +1,13 @@
 //! eddyzone: concept-stage design of permanent-magnet eddy-current braking zones on linear tracks.
 //!
-//! Data flows one way: `units` → `scenario` → `physics` → `dynamics` → `checks` / `thermal` →
-//! `plan` → `report` → `cli`. Each layer has its own error type; `error::Error` wraps them and
+//! Data flows one way: `units` → `scenario` → `physics` → `curve` / `dynamics` → `checks` /
+//! `thermal` → `plan` → `report` → `cli`. Each layer has its own error type; `error::Error` wraps them and
 //! maps them to exit codes.
 
 /// Limit checks: rider acceleration, filtering, sustained-acceleration envelopes, verdicts.
 pub mod checks;
 /// Command implementations: options → library calls → output.
 pub mod cli;
-/// The tool version stamped into every output.
-pub const VERSION: &str = env!("CARGO_PKG_VERSION");
-
 /// Physical constants with their sources.
 pub mod constants;
 /// Force–speed curves of each section × fin pair.
@@ -33,3 +30,6 @@ pub mod scenario;
 pub mod thermal;
 /// "value unit" strings to SI, one quantity kind per field.
 pub mod units;
+
+/// The tool version stamped into every output.
+pub const VERSION: &str = env!("CARGO_PKG_VERSION");

@@ -1,10 +1,16 @@
 //! Output: tables, CSV, JSON, plots and the HTML report; every format reads the same result types.
 
+/// CSV writers: force–speed curves and run profiles.
 pub mod csv_out;
+/// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
 pub mod figures;
+/// The self-contained HTML report.
 pub mod html;
+/// JSON documents printed by `--json`.
 pub mod json_out;
+/// Generic line charts rendered to PNG and SVG with an embedded font.
 pub mod plots;
+/// Plain-text tables for the terminal.
 pub mod text;
 
 use std::io::Write;
