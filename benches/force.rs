@@ -7,15 +7,7 @@ use std::hint::black_box;
 
 /// Typical section of the physics brief: copper fin, NdFeB magnets.
 fn typical() -> BrakeGeometry {
-    BrakeGeometry {
-        pole_pitch_m: 0.050,
-        magnet_thickness_m: 0.012,
-        magnet_fill: 0.9,
-        clearance_m: 0.005,
-        fin_thickness_m: 0.010,
-        fin_height_m: 0.220,
-        pole_height_m: 0.180,
-    }
+    BrakeGeometry::example()
 }
 
 fn benches(c: &mut Criterion) {

@@ -14,15 +14,7 @@ use std::f64::consts::PI;
 
 /// Typical section of the project brief (copper fin, NdFeB magnets).
 fn typical() -> BrakeGeometry {
-    BrakeGeometry {
-        pole_pitch_m: 0.050,
-        magnet_thickness_m: 0.012,
-        magnet_fill: 0.9,
-        clearance_m: 0.005,
-        fin_thickness_m: 0.010,
-        fin_height_m: 0.220,
-        pole_height_m: 0.180,
-    }
+    BrakeGeometry::example()
 }
 
 /// A second, different section: thin aluminium fin, short fin (no overhang), small clearance.

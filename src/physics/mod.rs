@@ -216,9 +216,16 @@ fn in_unit_interval(quantity: &'static str, value: f64) -> Result<f64, PhysicsEr
 pub(crate) mod test_support {
     use super::BrakeGeometry;
 
-    /// The typical section of the brief: τ = 50 mm, h_m = 12 mm, fill 0.9, clearance 5 mm,
-    /// 10 mm fin, fin height 220 mm, pole height 180 mm.
+    /// The typical section (see [`BrakeGeometry::example`]).
     pub fn typical_geometry() -> BrakeGeometry {
+        BrakeGeometry::example()
+    }
+}
+
+impl BrakeGeometry {
+    /// An example section for tests, benchmarks and documentation: τ = 50 mm, h_m = 12 mm,
+    /// fill 0.9, clearance 5 mm, 10 mm fin, fin height 220 mm, pole height 180 mm.
+    pub fn example() -> Self {
         BrakeGeometry {
             pole_pitch_m: 0.050,
             magnet_thickness_m: 0.012,
