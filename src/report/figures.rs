@@ -8,7 +8,8 @@ use crate::checks::rider::rider_signals;
 use crate::curve::PairCurve;
 use crate::dynamics::RunResult;
 use crate::report::plots::{Band, Chart, RefLine, Series};
-use crate::scenario::{Axis, Mount, Scenario};
+use crate::scenario::validate::track_span;
+use crate::scenario::{Axis, Scenario};
 use crate::thermal::CaseHeat;
 
 /// One figure of the report.
@@ -59,28 +60,25 @@ fn track_axis_index(s: &Scenario) -> usize {
 /// Magnet sections fixed along the track, or the track fins when the magnets ride on the vehicle,
 /// as x bands in m.
 pub fn track_element_bands(s: &Scenario) -> Vec<Band> {
-    let mut bands = Vec::new();
-    for sec in &s.sections {
-        if let Mount::Track { start_m } = sec.mount {
-            bands.push(Band {
-                from: start_m,
-                to: start_m + sec.length_m,
-                label: "magnet sections".into(),
-            });
-        }
+    let band = |(from, to): (f64, f64), label: &str| Band {
+        from,
+        to,
+        label: label.into(),
+    };
+    let sections: Vec<Band> = s
+        .sections
+        .iter()
+        .filter_map(|x| track_span(x.mount, x.length_m))
+        .map(|span| band(span, "magnet sections"))
+        .collect();
+    if !sections.is_empty() {
+        return sections;
     }
-    if bands.is_empty() {
-        for f in &s.fins {
-            if let Mount::Track { start_m } = f.mount {
-                bands.push(Band {
-                    from: start_m,
-                    to: start_m + f.length_m,
-                    label: "track fins (magnets on vehicle)".into(),
-                });
-            }
-        }
-    }
-    bands
+    s.fins
+        .iter()
+        .filter_map(|f| track_span(f.mount, f.length_m))
+        .map(|span| band(span, "track fins (magnets on vehicle)"))
+        .collect()
 }
 
 /// Figure 1: speed (m/s) against front position (m) for every case, with the magnet sections
