@@ -7,6 +7,7 @@
 
 use eddyzone::plan::{candidate_scenario, evaluate, plan, zone_length_m, Layout, PlanOptions};
 use eddyzone::scenario::{self, Scenario};
+use eddyzone::study::Silent;
 use std::path::Path;
 use std::process::Command;
 
@@ -63,7 +64,7 @@ fn planner_equals_exhaustive_search_on_a_small_instance() {
     );
     feasible.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
     let (best_len, best_n, _) = feasible[0].clone();
-    let r = plan(&s, &PlanOptions::default()).expect("plans");
+    let r = plan(&s, &PlanOptions::default(), &Silent).expect("plans");
     assert!(r.feasible);
     let last = r
         .layout
@@ -87,7 +88,7 @@ fn planner_equals_exhaustive_search_on_a_small_instance() {
 #[test]
 fn reported_layout_passes_a_fresh_verdict() {
     let s = demo();
-    let r = plan(&s, &PlanOptions::default()).expect("plans");
+    let r = plan(&s, &PlanOptions::default(), &Silent).expect("plans");
     assert!(r.feasible);
     let p = s.plan.clone().expect("plan");
     let again = evaluate(&candidate_scenario(&s, &p, &r.layout)).expect("simulates");
@@ -149,7 +150,7 @@ fn infeasible_names_the_binding_check() {
     let mut s = demo();
     let p = s.plan.as_mut().expect("plan");
     p.max_length_m = 3.0 * p.slot_pitch_m + p.module_length_m;
-    let r = plan(&s, &PlanOptions::default()).expect("plans");
+    let r = plan(&s, &PlanOptions::default(), &Silent).expect("plans");
     assert!(!r.feasible);
     let reason = r.reason.expect("reason");
     assert!(reason.contains("exit_speed_max"), "{reason}");

@@ -1,12 +1,11 @@
 //! `eddyzone curve SCENARIO`: force–speed curves.
 
-use super::{load, temperature_option};
-use crate::curve::{curves, default_speeds, CurveOptions};
-use crate::dynamics::BrakeTables;
-use crate::error::Error;
-use crate::report::text::{num, Table};
-use crate::report::{csv_out, json_out};
+use super::error::{Error, EXIT_OK};
+use super::{emit, load, temperature_option};
 use clap::{Args, ValueEnum};
+use eddyzone::curve::CurveOptions;
+use eddyzone::report::{csv_out, json_out, terminal};
+use eddyzone::study::Study;
 use std::path::PathBuf;
 
 /// Output formats of `curve`.
@@ -73,12 +72,10 @@ pub fn parse_speeds(text: &str) -> Result<Vec<f64>, Error> {
 
 /// Runs `curve`.
 pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
-    let s = load(&a.scenario)?;
-    let mut out = String::new();
-    let tables = BrakeTables::build(&s).map_err(|e| Error::Compute(e.to_string()))?;
+    let study = Study::new(load(&a.scenario, None)?)?;
     let speeds = match &a.speeds {
         Some(t) => parse_speeds(t)?,
-        None => default_speeds(&s, &tables),
+        None => study.default_speeds(),
     };
     let opts = CurveOptions {
         section: a.section.clone(),
@@ -86,9 +83,14 @@ pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
         fin_temp_c: temperature_option("--fin-temp", &a.fin_temp)?,
         magnet_temp_c: temperature_option("--magnet-temp", &a.magnet_temp)?,
     };
-    let c = curves(&s, &tables, &opts);
+    let c = study.curves(&opts);
     if c.is_empty() {
-        let names: Vec<_> = s.sections.iter().map(|x| x.name.as_str()).collect();
+        let names: Vec<_> = study
+            .scenario()
+            .sections
+            .iter()
+            .map(|x| x.name.as_str())
+            .collect();
         return Err(Error::Usage(format!(
             "--section: no section named '{}' meets a fin (sections: {})",
             a.section.clone().unwrap_or_default(),
@@ -96,77 +98,11 @@ pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
         )));
     }
     match a.format {
-        Format::Csv => {
-            let bytes = csv_out::curves_csv(&c).map_err(|e| Error::Compute(e.to_string()))?;
-            outp!(out, "{}", String::from_utf8_lossy(&bytes));
-        }
-        Format::Json => outln!(
-            out,
-            "{}",
-            json_out::curves_json(&c).map_err(|e| Error::Compute(e.to_string()))?
-        ),
-        Format::Table => {
-            outln!(out, "{} — force–speed curves", s.name);
-            let mut t = Table::new(&[
-                "section",
-                "fin",
-                "critical_speed_m_s",
-                "peak_force_per_m_n",
-                "edge_factor",
-                "gap_field_t",
-                "skin_depth_at_critical_mm",
-            ]);
-            for p in &c {
-                t.row(vec![
-                    p.section.clone(),
-                    p.fin.clone(),
-                    num(Some(p.critical_speed_m_s), 3),
-                    num(Some(p.peak_force_per_m_n), 1),
-                    num(p.edge_factor, 4),
-                    num(p.gap_field_t, 4),
-                    num(p.skin_depth_at_critical_m.map(|d| d * 1e3), 2),
-                ]);
-            }
-            outp!(out, "{}", t.render());
-            // Points of the first pair of each distinct section design (repeated copies share one curve).
-            let mut seen: Vec<(String, String)> = Vec::new();
-            for p in &c {
-                let base = (
-                    p.section
-                        .split('-')
-                        .next()
-                        .unwrap_or(&p.section)
-                        .to_string(),
-                    p.fin.split('-').next().unwrap_or(&p.fin).to_string(),
-                );
-                if seen.contains(&base) {
-                    continue;
-                }
-                seen.push(base);
-                outln!(out, "\n{} × {}", p.section, p.fin);
-                let mut t = Table::new(&[
-                    "speed_m_s",
-                    "force_per_area_pa",
-                    "fundamental_pa",
-                    "force_per_m_n",
-                    "force_full_overlap_n",
-                ]);
-                let stride = (p.points.len() / 25).max(1);
-                for q in p.points.iter().step_by(stride) {
-                    t.row(vec![
-                        num(Some(q.speed_m_s), 2),
-                        num(q.force_per_area_pa, 1),
-                        num(q.force_per_area_fundamental_pa, 1),
-                        num(Some(q.force_per_m_n), 1),
-                        num(Some(q.force_full_overlap_n), 1),
-                    ]);
-                }
-                outp!(out, "{}", t.render());
-            }
-        }
+        Format::Csv => emit(&String::from_utf8_lossy(&csv_out::curves_csv(&c)?))?,
+        Format::Json => emit(&(json_out::curves_json(&c)? + "\n"))?,
+        Format::Table => emit(&terminal::curve_text(&study.scenario().name, &c))?,
     }
-    super::emit(&out)?;
-    Ok(crate::error::EXIT_OK)
+    Ok(EXIT_OK)
 }
 
 #[cfg(test)]

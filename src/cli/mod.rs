@@ -1,25 +1,20 @@
 //! The command line: one file per command, each turning options into library calls and output.
-
-/// Appends a formatted line to an output buffer.
-macro_rules! outln {
-    ($buf:expr, $($arg:tt)*) => {{ use std::fmt::Write as _; let _ = writeln!($buf, $($arg)*); }};
-}
-/// Appends formatted text to an output buffer.
-macro_rules! outp {
-    ($buf:expr, $($arg:tt)*) => {{ use std::fmt::Write as _; let _ = write!($buf, $($arg)*); }};
-}
+//! No command computes: the pipeline lives in `eddyzone::study`, the documents in
+//! `eddyzone::report`.
 
 pub mod check;
 pub mod curve;
+pub mod error;
 pub mod heat;
 pub mod plan;
+pub mod progress;
 pub mod report;
 pub mod run;
 
-use crate::error::Error;
-use crate::scenario::{self, Scenario};
 use clap::{Parser, Subcommand};
-use std::path::{Path, PathBuf};
+use eddyzone::scenario::{self, Scenario};
+use error::Error;
+use std::path::Path;
 
 /// Concept-stage design of permanent-magnet eddy-current braking zones on linear tracks.
 #[derive(Debug, Parser)]
@@ -59,13 +54,9 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
     }
 }
 
-/// Reads and validates a scenario file.
-pub fn load(path: &Path) -> Result<Scenario, Error> {
-    Ok(scenario::load(path)?)
-}
-
-/// Selects one case by name, or all.
-pub fn select_cases(s: &mut Scenario, case: &Option<String>) -> Result<(), Error> {
+/// Reads and validates a scenario file, keeping only the case `--case` names (all without it).
+pub fn load(path: &Path, case: Option<&str>) -> Result<Scenario, Error> {
+    let mut s = scenario::load(path)?;
     if let Some(name) = case {
         if s.case(name).is_none() {
             let names: Vec<_> = s.cases.iter().map(|c| c.name.as_str()).collect();
@@ -74,9 +65,9 @@ pub fn select_cases(s: &mut Scenario, case: &Option<String>) -> Result<(), Error
                 names.join(", ")
             )));
         }
-        s.cases.retain(|c| &c.name == name);
+        s.cases.retain(|c| c.name == name);
     }
-    Ok(())
+    Ok(s)
 }
 
 /// Prints to standard output; a closed pipe (`| head`) is not an error.
@@ -86,27 +77,11 @@ pub fn emit(text: &str) -> Result<(), Error> {
     match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
         Ok(()) => Ok(()),
         Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
-        Err(e) => Err(Error::Output {
+        Err(source) => Err(Error::Output(eddyzone::report::OutputError::Write {
             path: "<stdout>".into(),
-            message: e.to_string(),
-        }),
+            source,
+        })),
     }
-}
-
-/// Writes a file atomically, mapping the error.
-pub fn write_file(path: &Path, bytes: &[u8]) -> Result<(), Error> {
-    crate::report::write_atomic(path, bytes).map_err(|e| Error::Output {
-        path: path.display().to_string(),
-        message: e.to_string(),
-    })
-}
-
-/// Creates a folder (and parents).
-pub fn make_dir(dir: &PathBuf) -> Result<(), Error> {
-    std::fs::create_dir_all(dir).map_err(|e| Error::Output {
-        path: dir.display().to_string(),
-        message: e.to_string(),
-    })
 }
 
 /// Parses a temperature option ("45", "45 °C", "318 K"); a plain number is °C on the command line.
@@ -118,7 +93,7 @@ pub fn temperature_option(name: &str, text: &Option<String>) -> Result<Option<f6
     } else {
         t.to_string()
     };
-    crate::units::from_text(crate::units::Kind::Temperature, &with_unit)
+    eddyzone::units::from_text(eddyzone::units::Kind::Temperature, &with_unit)
         .map(Some)
         .map_err(|e| Error::Usage(format!("{name}: {e}")))
 }

@@ -157,11 +157,75 @@ pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     1.25 * (top * top + 2.0 * G * drop).sqrt() + 5.0
 }
 
+/// Force tables of distinct designs, shared across the studies of many scenarios (the planner's
+/// candidates, a sweep's samples). A design is the fin's and magnets' geometry, remanence and
+/// conductivity; a table is reused when it reaches the speed a scenario needs.
+#[derive(Debug, Default)]
+pub struct TableCache {
+    entries: std::sync::Mutex<Vec<CachedTable>>,
+}
+
+#[derive(Debug, Clone)]
+struct CachedTable {
+    key: [u64; 9],
+    max_speed_m_s: f64,
+    table: Arc<ForceTable>,
+    model: Arc<DragModel>,
+}
+
+impl TableCache {
+    /// Number of distinct tables held.
+    pub fn len(&self) -> usize {
+        self.entries.lock().map_or(0, |e| e.len())
+    }
+
+    /// Whether it holds no table.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    fn find(&self, key: &[u64; 9], max_speed_m_s: f64) -> Option<CachedTable> {
+        let entries = self.entries.lock().ok()?;
+        entries
+            .iter()
+            .find(|c| &c.key == key && c.max_speed_m_s >= max_speed_m_s)
+            .cloned()
+    }
+
+    fn insert(&self, entry: CachedTable) {
+        if let Ok(mut entries) = self.entries.lock() {
+            entries.retain(|c| c.key != entry.key || c.max_speed_m_s > entry.max_speed_m_s);
+            entries.push(entry);
+        }
+    }
+}
+
+/// The identity of a layer-model design: every input of [`DragModel::new`], bit for bit.
+fn design_key(g: &BrakeGeometry, remanence_t: f64, conductivity_s_m: f64) -> [u64; 9] {
+    [
+        g.pole_pitch_m,
+        g.magnet_thickness_m,
+        g.magnet_fill,
+        g.clearance_m,
+        g.fin_thickness_m,
+        g.fin_height_m,
+        g.pole_height_m,
+        remanence_t,
+        conductivity_s_m,
+    ]
+    .map(f64::to_bits)
+}
+
 impl BrakeTables {
     /// Builds every pair's force law for the scenario. Pairs with the same fin design and magnet
     /// design share one table; the table reaches the top speed times the largest conductivity
     /// ratio of any case (a cold fin reads the table at v·σ(T)/σ20).
     pub fn build(scenario: &Scenario) -> Result<Self, DynamicsError> {
+        Self::build_cached(scenario, &TableCache::default())
+    }
+
+    /// Like [`BrakeTables::build`], taking tables from `cache` and adding the ones it builds.
+    pub fn build_cached(scenario: &Scenario, cache: &TableCache) -> Result<Self, DynamicsError> {
         let max_ratio = scenario
             .cases
             .iter()
@@ -173,7 +237,6 @@ impl BrakeTables {
             })
             .fold(1.0, f64::max);
         let vmax = speed_bound_m_s(scenario) * max_ratio;
-        let mut cache: Vec<(Vec<u64>, Arc<ForceTable>, Arc<DragModel>)> = Vec::new();
         let mut pairs = Vec::new();
         for (fi, fin) in scenario.fins.iter().enumerate() {
             for (si, sec) in scenario.sections.iter().enumerate() {
@@ -183,22 +246,9 @@ impl BrakeTables {
                 let law = match &sec.force {
                     ForceSource::Model(design) => {
                         let g = geometry(fin, design);
-                        let key: Vec<u64> = [
-                            g.pole_pitch_m,
-                            g.magnet_thickness_m,
-                            g.magnet_fill,
-                            g.clearance_m,
-                            g.fin_thickness_m,
-                            g.fin_height_m,
-                            g.pole_height_m,
-                            design.remanence_t,
-                            fin.material.conductivity_s_m,
-                        ]
-                        .iter()
-                        .map(|x| x.to_bits())
-                        .collect();
-                        let (table, model) = match cache.iter().find(|c| c.0 == key) {
-                            Some(c) => (c.1.clone(), c.2.clone()),
+                        let key = design_key(&g, design.remanence_t, fin.material.conductivity_s_m);
+                        let (table, model) = match cache.find(&key, vmax) {
+                            Some(c) => (c.table, c.model),
                             None => {
                                 let model = Arc::new(drag_model(fin, sec)?.ok_or_else(|| {
                                     DynamicsError::Physics {
@@ -208,7 +258,12 @@ impl BrakeTables {
                                     }
                                 })?);
                                 let table = Arc::new(ForceTable::build(&model, vmax));
-                                cache.push((key, table.clone(), model.clone()));
+                                cache.insert(CachedTable {
+                                    key,
+                                    max_speed_m_s: vmax,
+                                    table: table.clone(),
+                                    model: model.clone(),
+                                });
                                 (table, model)
                             }
                         };

@@ -30,23 +30,23 @@
 
 pub mod yaml;
 
-use crate::checks::{verdict, CaseTemperatures, Verdict};
-use crate::dynamics::{simulate_case, BrakeTables, RunOptions};
+use crate::checks::Verdict;
 use crate::scenario::{
     cases, Case, CaseOrigin, ForceSource, MagnetDesign, Mount, PlanSpec, Scenario, Section,
 };
+use crate::study::{JudgeOptions, Progress, Silent, Study, StudyError, TableCache};
 use rayon::prelude::*;
 use serde::Serialize;
 
 /// Errors of the planner.
-#[derive(Debug, Clone, thiserror::Error)]
+#[derive(Debug, thiserror::Error)]
 pub enum PlanError {
     /// The scenario has no `plan:` block.
     #[error("the scenario has no `plan:` block")]
     NoPlan,
     /// A candidate could not be simulated.
     #[error("simulating a candidate layout failed: {0}")]
-    Simulation(String),
+    Study(#[from] StudyError),
 }
 
 /// Planner settings.
@@ -54,15 +54,12 @@ pub enum PlanError {
 pub struct PlanOptions {
     /// Largest number of assignments of one zone length that is searched exhaustively.
     pub exhaustive_limit: usize,
-    /// Show a progress bar on standard error.
-    pub progress: bool,
 }
 
 impl Default for PlanOptions {
     fn default() -> Self {
         Self {
             exhaustive_limit: 32,
-            progress: false,
         }
     }
 }
@@ -235,25 +232,15 @@ pub fn section_out_bases(s: &Scenario) -> Vec<String> {
     out
 }
 
-/// Simulates every case of a scenario and judges it.
+/// Simulates every case of a scenario and judges it, as `check` does.
 pub fn evaluate(s: &Scenario) -> Result<Verdict, PlanError> {
-    let tables = BrakeTables::build(s).map_err(|e| PlanError::Simulation(e.to_string()))?;
-    let opts = RunOptions::default();
-    let runs = s
-        .cases
-        .par_iter()
-        .map(|c| simulate_case(s, &tables, c, &opts))
-        .collect::<Result<Vec<_>, _>>()
-        .map_err(|e| PlanError::Simulation(e.to_string()))?;
-    // With a duty block the fins are judged at their steady peak over the day, as `check` does;
-    // otherwise the pass's own end temperatures (vehicle fins) serve.
-    let temps = if s.duty.is_some() {
-        crate::thermal::judged_temperatures(s, &tables)
-            .map_err(|e| PlanError::Simulation(e.to_string()))?
-    } else {
-        vec![CaseTemperatures::default(); s.cases.len()]
-    };
-    Ok(verdict(s, &runs, &temps))
+    evaluate_cached(s, &TableCache::default())
+}
+
+/// [`evaluate`] with force tables shared through `cache`.
+pub fn evaluate_cached(s: &Scenario, cache: &TableCache) -> Result<Verdict, PlanError> {
+    let study = Study::with_cache(s.clone(), cache)?;
+    Ok(study.judge(&JudgeOptions::default(), &Silent)?.verdict)
 }
 
 /// Normalised total violation of a verdict (0 when it passes; more negative is worse).
@@ -321,16 +308,18 @@ struct Search<'a> {
     base: &'a Scenario,
     spec: &'a PlanSpec,
     simulated: usize,
+    cache: TableCache,
 }
 
 impl Search<'_> {
     fn eval_all(&mut self, layouts: &[Layout]) -> Result<Vec<(Scenario, Verdict)>, PlanError> {
         self.simulated += layouts.len();
+        let cache = &self.cache;
         layouts
             .par_iter()
             .map(|l| {
                 let s = candidate_scenario(self.base, self.spec, l);
-                evaluate(&s).map(|v| (s, v))
+                evaluate_cached(&s, cache).map(|v| (s, v))
             })
             .collect()
     }
@@ -382,8 +371,13 @@ pub fn all_assignments(k: usize, levels: usize) -> Vec<Layout> {
     out
 }
 
-/// Runs the layout search on a scenario with a `plan:` block.
-pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanError> {
+/// Runs the layout search on a scenario with a `plan:` block, reporting one step per zone
+/// length tried.
+pub fn plan(
+    base: &Scenario,
+    options: &PlanOptions,
+    progress: &dyn Progress,
+) -> Result<PlanResult, PlanError> {
     let spec = base.plan.as_ref().ok_or(PlanError::NoPlan)?;
     let levels = spec.clearances_m.len().max(1);
     let slots = slot_count(spec);
@@ -391,23 +385,21 @@ pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanEr
         base,
         spec,
         simulated: 0,
+        cache: TableCache::default(),
     };
-    let bar = options.progress.then(|| {
-        let b = indicatif::ProgressBar::new(slots as u64);
-        b.set_style(
-            indicatif::ProgressStyle::with_template(
-                "{spinner} zone length {pos}/{len} slots  {msg}  [{elapsed}]",
-            )
-            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
-        );
-        b
-    });
+    progress.stage(
+        "searching layouts by zone length (slots)",
+        Some(slots as u64),
+    );
     let mut last: Option<(Layout, Scenario, Verdict, bool)> = None;
     for k in 1..=slots {
-        if let Some(b) = &bar {
-            b.set_position(k as u64);
-            b.set_message(format!("{} candidates simulated", search.simulated));
+        if k > 1 {
+            progress.advance(1);
         }
+        progress.status(&format!(
+            "zone length {k}/{slots} slots, {} candidates simulated",
+            search.simulated
+        ));
         let count = (levels as f64 + 1.0).powi(k as i32 - 1) * levels as f64;
         if count <= options.exhaustive_limit as f64 {
             let layouts = all_assignments(k, levels);
@@ -415,9 +407,6 @@ pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanEr
             let mut tightest = None;
             for (l, (s, v)) in layouts.into_iter().zip(results) {
                 if v.pass {
-                    if let Some(b) = &bar {
-                        b.finish_and_clear();
-                    }
                     return Ok(finish(spec, l, s, v, None, search.simulated));
                 }
                 if l.iter().all(|c| *c == Some(0)) {
@@ -435,9 +424,6 @@ pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanEr
         let mut r = search.eval_all(&[to_layout(&cur)])?;
         let Some((s, v)) = r.pop() else { continue };
         if v.pass {
-            if let Some(b) = &bar {
-                b.finish_and_clear();
-            }
             return Ok(finish(spec, to_layout(&cur), s, v, None, search.simulated));
         }
         let fast = too_fast(&v);
@@ -464,9 +450,6 @@ pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanEr
             for (j, (_, v)) in results.iter().enumerate() {
                 if v.pass {
                     let (s, v) = results[j].clone();
-                    if let Some(b) = &bar {
-                        b.finish_and_clear();
-                    }
                     return Ok(finish(
                         spec,
                         layouts[j].clone(),
@@ -490,15 +473,12 @@ pub fn plan(base: &Scenario, options: &PlanOptions) -> Result<PlanResult, PlanEr
             }
         }
     }
-    if let Some(b) = &bar {
-        b.finish_and_clear();
-    }
     let (l, s, v, tightest) = match last {
         Some(x) => x,
         None => {
             let l: Layout = vec![Some(0); slots];
             let s = candidate_scenario(base, spec, &l);
-            let v = evaluate(&s)?;
+            let v = evaluate_cached(&s, &search.cache)?;
             (l, s, v, true)
         }
     };

@@ -1,7 +1,9 @@
 //! CSV writers: force–speed curves and run profiles.
 
+use super::{file_stem, OutputFile};
 use crate::curve::PairCurve;
-use crate::dynamics::Sample;
+use crate::dynamics::{RunResult, Sample};
+use crate::thermal::{CaseHeat, TrackProfile};
 
 /// The curve CSV header.
 pub const CURVE_HEADER: [&str; 7] = [
@@ -75,4 +77,66 @@ pub fn profile_csv(samples: &[Sample], extra: &[(&str, Vec<f64>)]) -> Result<Vec
         w.write_record(&rec)?;
     }
     w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
+}
+
+/// One profile CSV per run, named `<prefix><case>.csv`.
+pub fn run_profiles(results: &[RunResult], prefix: &str) -> Result<Vec<OutputFile>, csv::Error> {
+    results
+        .iter()
+        .map(|r| {
+            Ok(OutputFile {
+                name: format!("{prefix}{}.csv", file_stem(&r.case)),
+                bytes: profile_csv(&r.samples, &[])?,
+            })
+        })
+        .collect()
+}
+
+/// Temperature along one track fin after the last pass: s, rise of the last pass, temperature.
+pub fn track_fin_csv(p: &TrackProfile) -> Result<Vec<u8>, csv::Error> {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    w.write_record(["s_m", "rise_k", "temp_c"])?;
+    for ((s, t), r) in p.temps.iter().zip(&p.rise_k) {
+        w.write_record([format!("{s}"), format!("{r}"), format!("{t}")])?;
+    }
+    w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
+}
+
+/// The files of `heat --profile`: per case the last pass (`<case>.csv`, with the temperature of
+/// each track fin at the vehicle front's position as a column `<fin>_temp_c`) and the
+/// temperature along each track fin (`fin_<fin>_<case>.csv`).
+pub fn heat_profiles(heats: &[CaseHeat]) -> Result<Vec<OutputFile>, csv::Error> {
+    let mut out = Vec::new();
+    for h in heats {
+        let Some(run) = &h.last_run else { continue };
+        let names: Vec<String> = h
+            .track_profiles
+            .iter()
+            .map(|p| format!("{}_temp_c", p.fin))
+            .collect();
+        let extra: Vec<(&str, Vec<f64>)> = h
+            .track_profiles
+            .iter()
+            .zip(&names)
+            .map(|(p, name)| {
+                let col = run
+                    .samples
+                    .iter()
+                    .map(|s| p.temp_at(s.s_m).unwrap_or(f64::NAN))
+                    .collect();
+                (name.as_str(), col)
+            })
+            .collect();
+        out.push(OutputFile {
+            name: format!("{}.csv", file_stem(&h.case)),
+            bytes: profile_csv(&run.samples, &extra)?,
+        });
+        for p in &h.track_profiles {
+            out.push(OutputFile {
+                name: format!("fin_{}_{}.csv", file_stem(&p.fin), file_stem(&h.case)),
+                bytes: track_fin_csv(p)?,
+            });
+        }
+    }
+    Ok(out)
 }

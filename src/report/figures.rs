@@ -412,7 +412,7 @@ pub fn fin_temperature_cycles(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart>
 
 /// Every figure of the report, in report order.
 ///
-/// `heats` is the heat of every case from [`crate::thermal::heat_all`], in case order (empty:
+/// `heats` is the heat of every case from [`crate::study::Study::heat`], in case order (empty:
 /// no heating figures).
 pub fn all_figures(
     s: &Scenario,

@@ -349,6 +349,21 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
     o
 }
 
+/// The generation time stamp of a report: `SOURCE_DATE_EPOCH` (seconds, UTC) when set, else the
+/// clock, as "YYYY-MM-DDThh:mm:ssZ (UTC)".
+pub fn generation_stamp() -> String {
+    let from_env = std::env::var("SOURCE_DATE_EPOCH")
+        .ok()
+        .and_then(|v| v.trim().parse::<i64>().ok());
+    let secs = from_env.unwrap_or_else(|| {
+        std::time::SystemTime::now()
+            .duration_since(std::time::UNIX_EPOCH)
+            .map(|d| d.as_secs() as i64)
+            .unwrap_or(0)
+    });
+    format!("{} (UTC)", utc_timestamp(secs))
+}
+
 /// UTC date and time `YYYY-MM-DDTHH:MM:SSZ` of `secs` seconds after 1970-01-01T00:00:00Z.
 ///
 /// Civil date from a day count after H. Hinnant, "chrono-Compatible Low-Level Date

@@ -1,5 +1,7 @@
 //! Output: tables, CSV, JSON, plots and the HTML report; every format reads the same result types.
 
+/// The files of the HTML report, built in memory from a judged study.
+pub mod bundle;
 /// CSV writers: force–speed curves and run profiles.
 pub mod csv_out;
 /// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
@@ -10,11 +12,75 @@ pub mod html;
 pub mod json_out;
 /// Generic line charts rendered to PNG and SVG with an embedded font.
 pub mod plots;
+/// The documents the commands print on the terminal.
+pub mod terminal;
 /// Plain-text tables for the terminal.
 pub mod text;
 
 use std::io::Write;
-use std::path::Path;
+use std::path::{Path, PathBuf};
+
+/// Errors of the output layer: an output that could not be made or written.
+#[derive(Debug, thiserror::Error)]
+pub enum OutputError {
+    /// A figure could not be drawn or encoded.
+    #[error("figure '{figure}': {source}")]
+    Plot {
+        /// The figure's id.
+        figure: String,
+        /// The cause.
+        #[source]
+        source: plots::PlotError,
+    },
+    /// A CSV document could not be made.
+    #[error("CSV output: {0}")]
+    Csv(#[from] csv::Error),
+    /// A JSON document could not be made.
+    #[error("JSON output: {0}")]
+    Json(#[from] serde_json::Error),
+    /// A file or folder could not be written.
+    #[error("{}: {source}", path.display())]
+    Write {
+        /// The file or folder.
+        path: PathBuf,
+        /// The cause.
+        #[source]
+        source: std::io::Error,
+    },
+}
+
+/// A file of an output folder: its name in the folder and its bytes.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct OutputFile {
+    /// File name, relative to the folder.
+    pub name: String,
+    /// Contents.
+    pub bytes: Vec<u8>,
+}
+
+/// Writes a file atomically (see [`write_atomic`]), naming the path on failure.
+pub fn write_file(path: &Path, bytes: &[u8]) -> Result<(), OutputError> {
+    write_atomic(path, bytes).map_err(|source| OutputError::Write {
+        path: path.to_path_buf(),
+        source,
+    })
+}
+
+/// Creates a folder and its parents, naming the path on failure.
+pub fn make_dir(dir: &Path) -> Result<(), OutputError> {
+    std::fs::create_dir_all(dir).map_err(|source| OutputError::Write {
+        path: dir.to_path_buf(),
+        source,
+    })
+}
+
+/// Writes `files` into `dir` (created when missing).
+pub fn write_files(dir: &Path, files: &[OutputFile]) -> Result<(), OutputError> {
+    make_dir(dir)?;
+    files
+        .iter()
+        .try_for_each(|f| write_file(&dir.join(&f.name), &f.bytes))
+}
 
 /// The caution printed by `check` and carried by the README and the report.
 pub const CAUTION: &str = "CAUTION: eddyzone is a concept-stage design aid. Passenger-carrying devices need physical \

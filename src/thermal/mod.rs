@@ -15,7 +15,6 @@ pub use pass::{run_pass, FinState, PassHeat, DEFAULT_CELL_M};
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::{BrakeTables, DynamicsError, RunResult};
 use crate::scenario::{Case, Cycles, Mount, Scenario};
-use rayon::prelude::*;
 use serde::Serialize;
 
 /// Errors of the thermal layer.
@@ -109,6 +108,33 @@ pub struct TrackProfile {
     pub temps: Vec<(f64, f64)>,
     /// Rise of each cell in the last pass, K (same order).
     pub rise_k: Vec<f64>,
+}
+
+impl TrackProfile {
+    /// Temperature of the cell holding track position `s_m`, °C (None outside the fin).
+    pub fn temp_at(&self, s_m: f64) -> Option<f64> {
+        let n = self.temps.len();
+        if n == 0 {
+            return None;
+        }
+        // Cell centres are ascending; the cell holding s is the one with the nearest centre.
+        let half = if n > 1 {
+            0.5 * (self.temps[1].0 - self.temps[0].0)
+        } else {
+            f64::INFINITY
+        };
+        if s_m < self.temps[0].0 - half || s_m > self.temps[n - 1].0 + half {
+            return None;
+        }
+        let k = self.temps.partition_point(|c| c.0 < s_m);
+        let best = match k {
+            0 => 0,
+            k if k >= n => n - 1,
+            k if (self.temps[k].0 - s_m) < (s_m - self.temps[k - 1].0) => k,
+            k => k - 1,
+        };
+        Some(self.temps[best].1)
+    }
 }
 
 /// Heat result of one case.
@@ -385,51 +411,4 @@ fn rebook(c: &PassHeat, states: &[FinState], _scenario: &Scenario) -> PassHeat {
         run: c.run.clone(),
         fins,
     }
-}
-
-/// The heat of every case, in parallel (rayon), in case order.
-pub fn heat_all(
-    scenario: &Scenario,
-    tables: &BrakeTables,
-    options: &HeatOptions,
-) -> Result<Vec<CaseHeat>, ThermalError> {
-    scenario
-        .cases
-        .par_iter()
-        .map(|c| heat_case(scenario, tables, c, options))
-        .collect()
-}
-
-/// Temperatures each case is judged on: with a fin-temperature limit, the steady peak of the duty
-/// cycle (or of the single pass without a duty block); otherwise none.
-pub fn judged_temperatures(
-    scenario: &Scenario,
-    tables: &BrakeTables,
-) -> Result<Vec<crate::checks::CaseTemperatures>, ThermalError> {
-    if scenario.limits.max_fin_temperature_c.is_none() {
-        return Ok(temperatures_from_heat(scenario, &[]));
-    }
-    let heat = heat_all(scenario, tables, &HeatOptions::default())?;
-    Ok(temperatures_from_heat(scenario, &heat))
-}
-
-/// The temperatures of [`judged_temperatures`] from heat already computed by [`heat_all`] (one
-/// per case, in case order): the steady peak fin temperature (°C) when the scenario has a
-/// fin-temperature limit, otherwise none. A case without heat gets no temperature.
-pub fn temperatures_from_heat(
-    scenario: &Scenario,
-    heat: &[CaseHeat],
-) -> Vec<crate::checks::CaseTemperatures> {
-    let judged = scenario.limits.max_fin_temperature_c.is_some();
-    scenario
-        .cases
-        .iter()
-        .map(|c| crate::checks::CaseTemperatures {
-            peak_fin_temperature_c: heat
-                .iter()
-                .find(|h| h.case == c.name)
-                .filter(|_| judged)
-                .map(|h| h.steady_peak_fin_temperature_c),
-        })
-        .collect()
 }

@@ -1,0 +1,190 @@
+//! The study: one validated scenario with its force tables, the runs of its cases, the fin
+//! temperatures they are judged on, and the verdict.
+//!
+//! Every command goes through a [`Study`]; none assembles the pipeline "force tables → runs →
+//! temperatures → verdict" itself. Force tables are built once per distinct design: a
+//! [`TableCache`] handed to [`Study::with_cache`] keeps them across the studies of many
+//! scenarios (the planner's candidate layouts, a sweep's samples). Long computations report
+//! through a [`Progress`] that the command line turns into a progress bar; the library never
+//! draws one itself.
+
+pub mod progress;
+
+pub use crate::dynamics::model::TableCache;
+pub use progress::{Progress, Silent};
+
+use crate::checks::{verdict, CaseTemperatures, Verdict};
+use crate::curve::{curves, CurveOptions, PairCurve};
+use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult};
+use crate::scenario::Scenario;
+use crate::thermal::{heat_case, CaseHeat, HeatOptions, ThermalError};
+use rayon::prelude::*;
+
+/// Errors of a study: a computation of the dynamics or thermal layer that could not complete.
+#[derive(Debug, thiserror::Error)]
+pub enum StudyError {
+    /// Building a force law or integrating a case failed.
+    #[error(transparent)]
+    Dynamics(#[from] DynamicsError),
+    /// A heat calculation failed.
+    #[error(transparent)]
+    Thermal(#[from] ThermalError),
+}
+
+/// When the fin heat is computed by [`Study::judge`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum HeatDemand {
+    /// Only when the verdict needs it (a fin-temperature limit is set).
+    #[default]
+    ForVerdict,
+    /// Always (a report shows the heating); a failure is kept in the judgement instead of ending
+    /// the study when the verdict does not depend on it.
+    Always,
+}
+
+/// Options of [`Study::judge`].
+#[derive(Debug, Clone, Default)]
+pub struct JudgeOptions {
+    /// Options of the runs that are judged.
+    pub run: RunOptions,
+    /// When to compute the fin heat.
+    pub heat: HeatDemand,
+}
+
+/// The judged study: runs, heat and verdict of every case, in case order.
+#[derive(Debug)]
+pub struct Judgement {
+    /// One run per case.
+    pub runs: Vec<RunResult>,
+    /// One heat result per case; empty when it was not needed or could not be computed.
+    pub heat: Vec<CaseHeat>,
+    /// Why the heat is missing although it was asked for ([`HeatDemand::Always`] only).
+    pub heat_failure: Option<ThermalError>,
+    /// The verdict.
+    pub verdict: Verdict,
+}
+
+/// One scenario with its force tables, ready to run, heat and judge.
+#[derive(Debug, Clone)]
+pub struct Study {
+    scenario: Scenario,
+    tables: BrakeTables,
+}
+
+impl Study {
+    /// Builds the force tables of `scenario` (one per distinct fin × magnet design).
+    pub fn new(scenario: Scenario) -> Result<Self, StudyError> {
+        Self::with_cache(scenario, &TableCache::default())
+    }
+
+    /// Like [`Study::new`], taking tables from `cache` where it already holds the design and
+    /// adding the ones it builds.
+    pub fn with_cache(scenario: Scenario, cache: &TableCache) -> Result<Self, StudyError> {
+        let tables = BrakeTables::build_cached(&scenario, cache)?;
+        Ok(Self { scenario, tables })
+    }
+
+    /// The scenario.
+    pub fn scenario(&self) -> &Scenario {
+        &self.scenario
+    }
+
+    /// Its force tables.
+    pub fn tables(&self) -> &BrakeTables {
+        &self.tables
+    }
+
+    /// Hands the scenario back.
+    pub fn into_scenario(self) -> Scenario {
+        self.scenario
+    }
+
+    /// Runs every case (in parallel), results in case order.
+    pub fn run(&self, options: &RunOptions) -> Result<Vec<RunResult>, StudyError> {
+        let s = &self.scenario;
+        Ok(s.cases
+            .par_iter()
+            .map(|c| simulate_case(s, &self.tables, c, options))
+            .collect::<Result<Vec<_>, _>>()?)
+    }
+
+    /// Fin heat of every case over one pass or the duty cycle (in parallel), in case order.
+    pub fn heat(
+        &self,
+        options: &HeatOptions,
+        progress: &dyn Progress,
+    ) -> Result<Vec<CaseHeat>, StudyError> {
+        let s = &self.scenario;
+        progress.stage("heating the fins", Some(s.cases.len() as u64));
+        let out = s
+            .cases
+            .par_iter()
+            .map(|c| {
+                let h = heat_case(s, &self.tables, c, options);
+                progress.advance(1);
+                h
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        Ok(out)
+    }
+
+    /// Runs every case, computes the fin temperatures the verdict needs, and judges.
+    ///
+    /// The fin temperature of a case is judged on the steady peak of its duty cycle (or of its
+    /// single pass without a duty block) whenever a fin-temperature limit is set.
+    pub fn judge(
+        &self,
+        options: &JudgeOptions,
+        progress: &dyn Progress,
+    ) -> Result<Judgement, StudyError> {
+        let s = &self.scenario;
+        progress.stage("running cases", None);
+        let runs = self.run(&options.run)?;
+        let needed = s.limits.max_fin_temperature_c.is_some();
+        let (heat, heat_failure) = match (options.heat, needed) {
+            (HeatDemand::ForVerdict, false) => (Vec::new(), None),
+            (_, true) => (self.heat(&HeatOptions::default(), progress)?, None),
+            (HeatDemand::Always, false) => match self.heat(&HeatOptions::default(), progress) {
+                Ok(h) => (h, None),
+                Err(StudyError::Thermal(e)) => (Vec::new(), Some(e)),
+                Err(e) => return Err(e),
+            },
+        };
+        let temps = judged_temperatures(s, &heat);
+        let verdict = verdict(s, &runs, &temps);
+        Ok(Judgement {
+            runs,
+            heat,
+            heat_failure,
+            verdict,
+        })
+    }
+
+    /// Force–speed curves of the section × fin pairs.
+    pub fn curves(&self, options: &CurveOptions) -> Vec<PairCurve> {
+        curves(&self.scenario, &self.tables, options)
+    }
+
+    /// The default speed grid of [`Study::curves`].
+    pub fn default_speeds(&self) -> Vec<f64> {
+        crate::curve::default_speeds(&self.scenario, &self.tables)
+    }
+}
+
+/// The temperatures each case is judged on, from heat computed for the cases (any order; a case
+/// without heat gets none): the steady peak fin temperature when the scenario has a
+/// fin-temperature limit, otherwise none.
+pub fn judged_temperatures(scenario: &Scenario, heat: &[CaseHeat]) -> Vec<CaseTemperatures> {
+    let judged = scenario.limits.max_fin_temperature_c.is_some();
+    scenario
+        .cases
+        .iter()
+        .map(|c| CaseTemperatures {
+            peak_fin_temperature_c: heat
+                .iter()
+                .find(|h| h.case == c.name)
+                .filter(|_| judged)
+                .map(|h| h.steady_peak_fin_temperature_c),
+        })
+        .collect()
+}
