@@ -304,3 +304,54 @@ fn missing_file_and_bad_options() {
     let o = run(&["frobnicate"], tmp.path());
     assert_eq!(o.status.code(), Some(2));
 }
+
+/// Exit codes of the README: 3 for a computation that could not complete (here the integrator's
+/// step size underflows under a tolerance it cannot meet), 4 for an output that cannot be
+/// written (the profile folder would have to be created inside a file).
+#[test]
+fn computation_and_output_failures_have_their_own_exit_codes() {
+    let tmp = tempfile::tempdir().unwrap();
+    let demo = std::fs::read_to_string(root().join("scenarios/coaster-brake-run.yaml")).unwrap();
+    let limits = root().join("scenarios/limits/coaster-seated-example.yaml");
+    let demo = demo.replace(
+        "limits_file: limits/coaster-seated-example.yaml",
+        &format!("limits_file: {}", limits.display()),
+    );
+    let tight = if demo.contains("solver:") {
+        demo.lines()
+            .map(|l| {
+                if l.trim_start().starts_with("solver:") {
+                    "solver: { rtol: 1.1e-14, atol: 1.0e-300 }".to_string()
+                } else {
+                    l.to_string()
+                }
+            })
+            .collect::<Vec<_>>()
+            .join("\n")
+    } else {
+        format!("{demo}\nsolver: {{ rtol: 1.1e-14, atol: 1.0e-300 }}\n")
+    };
+    let p = tmp.path().join("tight.yaml");
+    std::fs::write(&p, tight).unwrap();
+    let o = run(&["run", p.to_str().unwrap()], tmp.path());
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(3), "{err}");
+    assert!(err.contains("integrator"), "{err}");
+    assert!(!err.contains("panicked"), "{err}");
+
+    let file = tmp.path().join("a-file");
+    std::fs::write(&file, "x").unwrap();
+    let sc = root().join("scenarios/coaster-brake-run.yaml");
+    let o = run(
+        &[
+            "run",
+            sc.to_str().unwrap(),
+            "--profile",
+            file.join("profiles").to_str().unwrap(),
+        ],
+        tmp.path(),
+    );
+    let (_, err) = text(&o);
+    assert_eq!(o.status.code(), Some(4), "{err}");
+    assert!(err.contains("a-file"), "{err}");
+}
