@@ -2,11 +2,31 @@
 //! speed, duration, stall and rollback, fin and magnet temperatures.
 
 use super::envelope::Envelope;
-use super::rider::{rider_signals, RiderSignals};
+use super::rider::rider_signals;
 use crate::dynamics::{Outcome, RunResult};
 use crate::scenario::{Case, Scenario};
 use crate::VERSION;
 use serde::Serialize;
+
+/// The fin temperatures a case was judged at.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum JudgedState {
+    /// The first dispatch of the duty cycle (fins at the case's temperature).
+    First,
+    /// The duty cycle's steady state (fins at the temperatures they meet then).
+    Steady,
+}
+
+impl JudgedState {
+    /// The snake-case name used in output.
+    pub fn name(self) -> &'static str {
+        match self {
+            JudgedState::First => "first",
+            JudgedState::Steady => "steady",
+        }
+    }
+}
 
 /// One check of one case.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -31,6 +51,11 @@ pub struct CheckRow {
     pub pass: bool,
     /// For envelopes: the duration at the worst margin, s.
     pub at_duration_s: Option<f64>,
+    /// Why the check could not be evaluated (the row then fails unless the reason is an outcome
+    /// the limits allow).
+    pub not_evaluated: Option<String>,
+    /// Which judged state this row comes from (None without a duty block: one state).
+    pub state: Option<JudgedState>,
 }
 
 /// The verdict on one case.
@@ -53,6 +78,10 @@ pub struct Worst {
     pub case: String,
     /// Its margin (None for pass/fail checks without one).
     pub margin: Option<f64>,
+    /// The state that binds it (None without a duty block).
+    pub state: Option<JudgedState>,
+    /// For envelopes: the duration at which it binds, s.
+    pub at_duration_s: Option<f64>,
 }
 
 /// The verdict on a scenario.
@@ -68,6 +97,33 @@ pub struct Verdict {
     pub cases: Vec<CaseVerdict>,
     /// Per check, the case with the smallest margin.
     pub worst: Vec<Worst>,
+    /// What the limit set leaves unconstrained (see [`limit_warnings`]).
+    pub warnings: Vec<String>,
+}
+
+impl Verdict {
+    /// The failing checks, as (case, check name with axis) pairs in case order.
+    pub fn failures(&self) -> Vec<(&str, String)> {
+        self.cases
+            .iter()
+            .flat_map(|c| {
+                c.checks
+                    .iter()
+                    .filter(|r| !r.pass)
+                    .map(move |r| (c.case.as_str(), r.key()))
+            })
+            .collect()
+    }
+}
+
+impl CheckRow {
+    /// Check name with its axis ("peak_min.x"), the key rows are matched by.
+    pub fn key(&self) -> String {
+        match &self.axis {
+            Some(a) => format!("{}.{a}", self.check),
+            None => self.check.clone(),
+        }
+    }
 }
 
 fn row(
@@ -88,6 +144,8 @@ fn row(
         unit: unit.into(),
         pass: margin >= 0.0,
         at_duration_s: None,
+        not_evaluated: None,
+        state: None,
     }
 }
 
@@ -102,6 +160,33 @@ fn flag(check: &str, ok: bool, note_value: Option<f64>, unit: &str) -> CheckRow 
         unit: unit.into(),
         pass: ok,
         at_duration_s: None,
+        not_evaluated: None,
+        state: None,
+    }
+}
+
+/// A row for a limit that could not be evaluated: it fails unless `allowed` (an outcome the
+/// limits accept explains why there is no value).
+fn unevaluated(
+    check: &str,
+    axis: Option<&str>,
+    limit: Option<f64>,
+    unit: &str,
+    reason: impl Into<String>,
+    allowed: bool,
+) -> CheckRow {
+    CheckRow {
+        check: check.into(),
+        axis: axis.map(String::from),
+        value: None,
+        raw_value: None,
+        limit,
+        margin: None,
+        unit: unit.into(),
+        pass: allowed,
+        at_duration_s: None,
+        not_evaluated: Some(reason.into()),
+        state: None,
     }
 }
 
@@ -110,6 +195,134 @@ fn flag(check: &str, ok: bool, note_value: Option<f64>, unit: &str) -> CheckRow 
 pub struct CaseTemperatures {
     /// Highest fin temperature over the pass or the duty cycle, °C.
     pub peak_fin_temperature_c: Option<f64>,
+}
+
+/// The sides of a rider axis: (name of the check, whether it judges the negative side).
+const SIDES: [(&str, bool); 2] = [("positive", false), ("negative", true)];
+
+/// Felt-acceleration checks of one case: peaks and envelopes on every axis with a limit.
+fn acceleration_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckRow>) {
+    let lim = &scenario.limits;
+    let signals = rider_signals(run, &scenario.rider);
+    for (k, name) in ["x", "y", "z"].iter().enumerate() {
+        let axis = Some(*name);
+        let peak = lim.peak[k];
+        let sides: [(&str, Option<f64>, bool); 2] = [
+            ("peak_max", peak.max_g, false),
+            ("peak_min", peak.min_g, true),
+        ];
+        for (check, limit, negative) in sides {
+            let Some(limit) = limit else { continue };
+            match &signals {
+                Err(e) => rows.push(unevaluated(
+                    check,
+                    axis,
+                    Some(limit),
+                    "g",
+                    e.to_string(),
+                    false,
+                )),
+                Ok(sig) => {
+                    let p = sig.peaks()[k];
+                    let (value, raw, margin) = if negative {
+                        (p.filtered_min_g, p.raw_min_g, p.filtered_min_g - limit)
+                    } else {
+                        (p.filtered_max_g, p.raw_max_g, limit - p.filtered_max_g)
+                    };
+                    let mut r = row(check, axis, value, limit, margin, "g");
+                    r.raw_value = Some(raw);
+                    rows.push(r);
+                }
+            }
+        }
+        for (side, negative) in SIDES {
+            let pts = if negative {
+                &lim.envelope[k].negative
+            } else {
+                &lim.envelope[k].positive
+            };
+            let Some(pts) = pts else { continue };
+            let check = format!("envelope_{side}");
+            let result = Envelope::new(pts.clone()).and_then(|env| match &signals {
+                Err(e) => Ok(Err(e.to_string())),
+                Ok(sig) => {
+                    let u = if negative {
+                        sig.filtered[k].negated()
+                    } else {
+                        sig.filtered[k].clone()
+                    };
+                    env.check(&u).map(Ok)
+                }
+            });
+            match result {
+                Ok(Ok(res)) => {
+                    let sustained = if res.sustained.is_finite() {
+                        res.sustained
+                    } else {
+                        0.0
+                    };
+                    let mut r = row(&check, axis, sustained, res.allowed, res.worst_margin, "g");
+                    r.at_duration_s = Some(res.duration_s);
+                    rows.push(r);
+                }
+                Ok(Err(reason)) => rows.push(unevaluated(&check, axis, None, "g", reason, false)),
+                Err(e) => rows.push(unevaluated(&check, axis, None, "g", e.to_string(), false)),
+            }
+        }
+    }
+}
+
+/// Exit-speed checks. The value is the signed speed along the track at the exit (+ downstream,
+/// as in `run`); the limits apply to the speed in the direction of travel, so for a vehicle
+/// leaving backwards the limit is shown with the same (negative) sign.
+fn exit_speed_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckRow>) {
+    let lim = &scenario.limits;
+    let bounds = [
+        ("exit_speed_min", lim.exit_speed_min_m_s, false),
+        ("exit_speed_max", lim.exit_speed_max_m_s, true),
+    ];
+    for (check, limit, is_max) in bounds {
+        let Some(limit) = limit else { continue };
+        match (run.outcome, run.exit_speed_m_s) {
+            (Outcome::Cleared, Some(v)) => {
+                let dir = if v < 0.0 { -1.0 } else { 1.0 };
+                let margin = if is_max {
+                    limit - v.abs()
+                } else {
+                    v.abs() - limit
+                };
+                rows.push(row(check, None, v, dir * limit, margin, "m/s"));
+            }
+            (Outcome::Stalled, _) if is_max => {
+                // Stopped inside the zone: the exit speed is zero.
+                rows.push(row(check, None, 0.0, limit, limit, "m/s"));
+            }
+            (Outcome::Stalled, _) => rows.push(unevaluated(
+                check,
+                None,
+                Some(limit),
+                "m/s",
+                "stalled in the zone (judged by the stall check)",
+                lim.allow_stall,
+            )),
+            (Outcome::RolledBack, _) => rows.push(unevaluated(
+                check,
+                None,
+                Some(limit),
+                "m/s",
+                "rolled back out of the entry end (judged by the rollback check)",
+                lim.allow_rollback,
+            )),
+            (Outcome::TimeLimit, _) | (Outcome::Cleared, None) => rows.push(unevaluated(
+                check,
+                None,
+                Some(limit),
+                "m/s",
+                "the vehicle did not leave the zone",
+                false,
+            )),
+        }
+    }
 }
 
 /// Checks of one case.
@@ -136,105 +349,33 @@ pub fn check_case(
     if run.reversed && run.outcome != Outcome::RolledBack && !lim.allow_rollback {
         rows.push(flag("rollback", false, None, "m/s"));
     }
-    // Felt acceleration.
-    let signals: Option<RiderSignals> = rider_signals(run, &scenario.rider);
-    if let Some(sig) = &signals {
-        let peaks = sig.peaks();
-        for (k, name) in ["x", "y", "z"].iter().enumerate() {
-            let p = peaks[k];
-            if let Some(max) = lim.peak[k].max_g {
-                let mut r = row(
-                    "peak_max",
-                    Some(name),
-                    p.filtered_max_g,
-                    max,
-                    max - p.filtered_max_g,
-                    "g",
-                );
-                r.raw_value = Some(p.raw_max_g);
-                rows.push(r);
-            }
-            if let Some(min) = lim.peak[k].min_g {
-                let mut r = row(
-                    "peak_min",
-                    Some(name),
-                    p.filtered_min_g,
-                    min,
-                    p.filtered_min_g - min,
-                    "g",
-                );
-                r.raw_value = Some(p.raw_min_g);
-                rows.push(r);
-            }
-            for (side, pts) in [
-                ("envelope_positive", &lim.envelope[k].positive),
-                ("envelope_negative", &lim.envelope[k].negative),
-            ] {
-                let Some(pts) = pts else { continue };
-                let Ok(env) = Envelope::new(pts.clone()) else {
-                    continue;
-                };
-                let sigv = if side == "envelope_negative" {
-                    sig.filtered[k].negated()
-                } else {
-                    sig.filtered[k].clone()
-                };
-                if let Ok(res) = env.check(&sigv) {
-                    let sustained = if res.sustained.is_finite() {
-                        res.sustained
-                    } else {
-                        0.0
-                    };
-                    let mut r = row(
-                        side,
-                        Some(name),
-                        sustained,
-                        res.allowed,
-                        res.worst_margin,
-                        "g",
-                    );
-                    r.at_duration_s = Some(res.duration_s);
-                    rows.push(r);
-                }
-            }
+    acceleration_rows(scenario, run, &mut rows);
+    if let Some(limit) = lim.onset_g_s {
+        match run.peak_onset_g_s {
+            Some(onset) => rows.push(row("onset", None, onset, limit, limit - onset, "g/s")),
+            None => rows.push(unevaluated(
+                "onset",
+                None,
+                Some(limit),
+                "g/s",
+                "no samples in the zone",
+                false,
+            )),
         }
     }
-    if let (Some(limit), Some(onset)) = (lim.onset_g_s, run.peak_onset_g_s) {
-        rows.push(row("onset", None, onset, limit, limit - onset, "g/s"));
-    }
-    // Exit speed: judged when the vehicle left the zone forwards.
-    if lim.exit_speed_min_m_s.is_some() || lim.exit_speed_max_m_s.is_some() {
-        match (run.outcome, run.exit_speed_m_s) {
-            (Outcome::Cleared, Some(v)) => {
-                let v = v.abs();
-                if let Some(lo) = lim.exit_speed_min_m_s {
-                    rows.push(row("exit_speed_min", None, v, lo, v - lo, "m/s"));
-                }
-                if let Some(hi) = lim.exit_speed_max_m_s {
-                    rows.push(row("exit_speed_max", None, v, hi, hi - v, "m/s"));
-                }
-            }
-            // A stall inside the zone is judged by the stall check; it does not exit.
-            (Outcome::Stalled, _) if lim.allow_stall => {}
-            _ => {
-                if let Some(lo) = lim.exit_speed_min_m_s {
-                    rows.push(CheckRow {
-                        check: "exit_speed_min".into(),
-                        axis: None,
-                        value: None,
-                        raw_value: None,
-                        limit: Some(lo),
-                        margin: None,
-                        unit: "m/s".into(),
-                        pass: false,
-                        at_duration_s: None,
-                    });
-                }
-            }
+    exit_speed_rows(scenario, run, &mut rows);
+    if let Some(limit) = lim.max_duration_s {
+        match run.time_in_zone_s {
+            Some(d) => rows.push(row("duration", None, d, limit, limit - d, "s")),
+            None => rows.push(unevaluated(
+                "duration",
+                None,
+                Some(limit),
+                "s",
+                "the vehicle never entered the zone",
+                false,
+            )),
         }
-    }
-    if let (Some(limit), Some(d)) = (lim.max_duration_s, run.time_in_zone_s) {
-        rows.push(row("duration", None, d, limit, limit - d, "s"));
     }
     if let Some(limit) = lim.max_fin_temperature_c {
         let peak = temps.peak_fin_temperature_c.unwrap_or_else(|| {
@@ -280,12 +421,119 @@ pub fn check_case(
             "°C",
         ));
     }
+    // A value that is not finite cannot pass.
+    for r in &mut rows {
+        if [r.value, r.margin].iter().flatten().any(|x| !x.is_finite()) {
+            r.pass = false;
+            r.not_evaluated
+                .get_or_insert_with(|| "the value is not a finite number".into());
+        }
+    }
     let pass = rows.iter().all(|r| r.pass);
     CaseVerdict {
         case: case.name.clone(),
         pass,
         checks: rows,
     }
+}
+
+/// Which of two rows of the same check is worse: a failing row over a passing one, then the
+/// smaller margin, then an unevaluated row over an evaluated one.
+fn worse<'a>(a: &'a CheckRow, b: &'a CheckRow) -> &'a CheckRow {
+    if a.pass != b.pass {
+        return if a.pass { b } else { a };
+    }
+    match (a.margin, b.margin) {
+        (Some(x), Some(y)) => {
+            if y < x {
+                b
+            } else {
+                a
+            }
+        }
+        (None, Some(_)) => a,
+        (Some(_), None) => b,
+        (None, None) => a,
+    }
+}
+
+/// The verdict of a case judged in several states: every check's row is the worst of the
+/// states, tagged with the state it comes from. Rows of a check that only one state has are
+/// kept as they are.
+pub fn combine_states(states: &[(JudgedState, CaseVerdict)]) -> CaseVerdict {
+    let mut rows: Vec<CheckRow> = Vec::new();
+    for (state, cv) in states {
+        for r in &cv.checks {
+            let mut r = r.clone();
+            r.state = Some(*state);
+            match rows.iter_mut().find(|x| x.key() == r.key()) {
+                Some(x) => {
+                    if std::ptr::eq(worse(x, &r), &r) {
+                        *x = r;
+                    }
+                }
+                None => rows.push(r),
+            }
+        }
+    }
+    let case = states.first().map(|s| s.1.case.clone()).unwrap_or_default();
+    CaseVerdict {
+        case,
+        pass: rows.iter().all(|r| r.pass),
+        checks: rows,
+    }
+}
+
+/// What a limit set leaves unconstrained on the braking side of the track axis, one sentence
+/// per gap naming the field: braking while moving forward is −x (track along x) or +z (track
+/// along the spine); rolling back it is the other side.
+pub fn limit_warnings(scenario: &Scenario) -> Vec<String> {
+    let lim = &scenario.limits;
+    let axis = scenario.rider.track_axis;
+    let k = axis as usize;
+    let name = axis.name();
+    let forward = scenario.cases.iter().any(|c| c.start_speed_m_s >= 0.0);
+    let backward =
+        scenario.cases.iter().any(|c| c.start_speed_m_s < 0.0) || (lim.allow_rollback && forward);
+    // Whether braking moving forward is the negative side of the track axis.
+    let forward_negative = !matches!(axis, crate::scenario::Axis::Z);
+    let mut out = Vec::new();
+    for (moving, present) in [("moving forward", forward), ("rolling back", backward)] {
+        if !present {
+            continue;
+        }
+        let negative = forward_negative == (moving == "moving forward");
+        let (peak_key, peak_set, env_key, env_set) = if negative {
+            (
+                "min",
+                lim.peak[k].min_g.is_some(),
+                "negative",
+                lim.envelope[k].negative.is_some(),
+            )
+        } else {
+            (
+                "max",
+                lim.peak[k].max_g.is_some(),
+                "positive",
+                lim.envelope[k].positive.is_some(),
+            )
+        };
+        let sign = if negative { "negative" } else { "positive" };
+        if !peak_set {
+            out.push(format!(
+                "limits.peak.{name}.{peak_key} is not set: braking {moving} gives {sign} {name} \
+                 (rider axes fixed to the vehicle), so the peak felt braking is unlimited"
+            ));
+        }
+        let env_given = lim.envelope[k].negative.is_some() || lim.envelope[k].positive.is_some();
+        if env_given && !env_set {
+            out.push(format!(
+                "limits.envelope.{name}.{env_key} is not set: braking {moving} gives {sign} \
+                 {name}, so the sustained felt braking is unlimited"
+            ));
+        }
+    }
+    out
 }
 
 /// Verdict on every case; `temps[i]` belongs to `scenario.cases[i]` (may be empty).
@@ -297,36 +545,40 @@ pub fn verdict(scenario: &Scenario, runs: &[RunResult], temps: &[CaseTemperature
         .enumerate()
         .map(|(i, (c, r))| check_case(scenario, c, r, temps.get(i).copied().unwrap_or_default()))
         .collect();
-    let mut worst: Vec<(String, String, f64)> = Vec::new();
+    verdict_of(scenario, cases)
+}
+
+/// The scenario's verdict from its case verdicts (in case order): the worst case of each check
+/// and the limit-set warnings.
+pub fn verdict_of(scenario: &Scenario, cases: Vec<CaseVerdict>) -> Verdict {
+    let mut worst: Vec<(String, &str, f64, &CheckRow)> = Vec::new();
     for cv in &cases {
         for r in &cv.checks {
-            let key = match &r.axis {
-                Some(a) => format!("{}.{a}", r.check),
-                None => r.check.clone(),
-            };
+            let key = r.key();
             let m = r.margin.unwrap_or(if r.pass {
                 f64::INFINITY
             } else {
                 f64::NEG_INFINITY
             });
-            let finite = |x: f64| x.is_finite().then_some(x);
             match worst.iter_mut().find(|w| w.0 == key) {
                 Some(w) if m < w.2 => {
+                    w.1 = &cv.case;
                     w.2 = m;
-                    w.1 = cv.case.clone();
+                    w.3 = r;
                 }
                 Some(_) => {}
-                None => worst.push((key, cv.case.clone(), m)),
+                None => worst.push((key, &cv.case, m, r)),
             }
-            let _ = finite;
         }
     }
     let worst = worst
         .into_iter()
-        .map(|(check, case, m)| Worst {
+        .map(|(check, case, m, r)| Worst {
             check,
-            case,
+            case: case.to_string(),
             margin: m.is_finite().then_some(m),
+            state: r.state,
+            at_duration_s: r.at_duration_s,
         })
         .collect();
     let pass = cases.iter().all(|c| c.pass);
@@ -336,5 +588,6 @@ pub fn verdict(scenario: &Scenario, runs: &[RunResult], temps: &[CaseTemperature
         pass,
         cases,
         worst,
+        warnings: limit_warnings(scenario),
     }
 }

@@ -1,12 +1,15 @@
-//! What the rider feels: the specific (felt) acceleration in rider axes, raw and filtered.
+//! What the rider feels: the specific (felt) acceleration in rider axes fixed to the vehicle, raw
+//! and filtered.
 //!
-//! Along the track the felt acceleration is (brake + resistance)/(m·g): gravity acts on rider and
-//! seat alike and is not felt. Across the track the rider feels the track-normal part of gravity,
-//! cos θ. Signs follow the usual ride convention (e.g. ASTM F2291): with the track along x (seated,
-//! facing the motion) braking is −x (thrown forward); with the track along the spine z (a tower,
-//! descending) braking presses the rider into the seat, +z.
-
-use super::filter::{resample_uniform, Butterworth, UniformSignal};
+//! Axes are fixed to the vehicle, which faces the track's +s direction. Along the track the felt
+//! acceleration is (brake + resistance)/(m·g) in track coordinates: gravity acts on rider and seat
+//! alike and is not felt. Across the track the rider feels the track-normal part of gravity,
+//! cos θ. Signs follow the usual ride convention (e.g. ASTM F2291, from memory): with the track
+//! along x (seated, facing +s) braking while moving forward is −x (thrown forward, "eyes front")
+//! and braking while rolling back is +x (pressed into the seat back, "eyes back"); with the track
+//! along the spine z (a tower descending towards +s) braking while descending is +z (pressed into
+//! the seat) and braking while moving up is −z.
+use super::filter::{resample_uniform, Butterworth, SignalError, UniformSignal};
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::RunResult;
 use crate::scenario::{Axis, Rider};
@@ -60,35 +63,62 @@ impl RiderSignals {
     }
 }
 
+/// The sign convention of the felt acceleration for a rider block, in one sentence.
+pub fn sign_convention(rider: &Rider) -> String {
+    match rider.track_axis {
+        Axis::Z => "felt acceleration in g on rider axes fixed to the vehicle (track along the \
+                    spine z): braking while descending is +z (into the seat), braking while \
+                    moving up is −z"
+            .into(),
+        axis => {
+            let a = axis.name();
+            format!(
+                "felt acceleration in g on rider axes fixed to the vehicle (track along {a}, \
+                 rider facing +s): braking while moving forward is −{a} (eyes front), braking \
+                 while rolling back is +{a} (eyes back)"
+            )
+        }
+    }
+}
+
+/// Why the felt acceleration of a run could not be formed.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum RiderSignalError {
+    /// The run has fewer than two samples in the zone (it never entered, or left at once).
+    #[error("the run has fewer than two samples in the zone")]
+    TooFewSamples,
+    /// Resampling or the filter design failed.
+    #[error(transparent)]
+    Signal(#[from] SignalError),
+}
+
+/// Felt specific force along the track's +s direction (the vehicle's x), in g: negative while
+/// braking a vehicle moving forward, positive while braking one rolling back.
+pub fn felt_along_track_g(s: &crate::dynamics::Sample, mass_kg: f64) -> f64 {
+    (s.brake_force_n + s.resistance_force_n) / (mass_kg * G)
+}
+
 /// Felt acceleration along the track and normal to it from a run's samples (inside the zone),
 /// resampled at the filter's rate and filtered (single pass) when the rider block asks for it.
-/// Returns None when the run has fewer than two samples.
-pub fn rider_signals(run: &RunResult, rider: &Rider) -> Option<RiderSignals> {
+pub fn rider_signals(run: &RunResult, rider: &Rider) -> Result<RiderSignals, RiderSignalError> {
     let mut t = Vec::with_capacity(run.samples.len());
     let mut along = Vec::with_capacity(run.samples.len());
     let mut normal = Vec::with_capacity(run.samples.len());
     for s in &run.samples {
-        let dir = if s.v_m_s != 0.0 {
-            s.v_m_s.signum()
-        } else {
-            1.0
-        };
-        // Specific force along the direction of travel, in g (negative while braking).
-        let f = dir * (s.brake_force_n + s.resistance_force_n) / (run.mass_kg * G);
         if t.last().is_some_and(|&l: &f64| s.t_s < l) {
             continue;
         }
         t.push(s.t_s);
-        along.push(f);
+        along.push(felt_along_track_g(s, run.mass_kg));
         normal.push(s.cos_theta);
     }
     if t.len() < 2 || t[t.len() - 1] <= t[0] {
-        return None;
+        return Err(RiderSignalError::TooFewSamples);
     }
     let rate = rider.filter.map(|f| f.sample_rate_hz).unwrap_or(1000.0);
     let dt = 1.0 / rate;
-    let along = resample_uniform(&t, &along, dt).ok()?;
-    let normal = resample_uniform(&t, &normal, dt).ok()?;
+    let along = resample_uniform(&t, &along, dt)?;
+    let normal = resample_uniform(&t, &normal, dt)?;
     let zero = UniformSignal {
         dt_s: along.dt_s,
         t0_s: along.t0_s,
@@ -108,19 +138,19 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Option<RiderSignals> {
     let raw = [x, zero, z];
     debug_assert!(raw.iter().all(|s| s.values.len() == raw[0].values.len()));
     let (filtered, applied) = match rider.filter {
-        Some(f) => match Butterworth::lowpass(f.order, f.corner_hz, rate) {
-            Ok(b) => (
+        Some(f) => {
+            let b = Butterworth::lowpass(f.order, f.corner_hz, rate)?;
+            (
                 std::array::from_fn(|i| UniformSignal {
                     values: b.filter(&raw[i].values),
                     ..raw[i].clone()
                 }),
                 true,
-            ),
-            Err(_) => (raw.clone(), false),
-        },
+            )
+        }
         None => (raw.clone(), false),
     };
-    Some(RiderSignals {
+    Ok(RiderSignals {
         raw,
         filtered,
         filter_applied: applied,
@@ -186,5 +216,45 @@ mod tests {
         assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
         // A constant signal passes the filter unchanged (steady-state start).
         assert!((s.peaks()[2].filtered_max_g - 1.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn braking_while_rolling_back_is_plus_x_seated() {
+        // Rolling back (v < 0) the brake pushes towards +s: 1 g on 1000 kg is +9806.65 N, felt
+        // as +x (into the seat back) by a rider facing +s (axes fixed to the vehicle).
+        let samples: Vec<Sample> = (0..1000)
+            .map(|i| Sample {
+                v_m_s: -10.0,
+                ..sample(i as f64 * 1e-3, 9806.65, 1.0)
+            })
+            .collect();
+        let r = run_with(samples);
+        let seated = Rider {
+            track_axis: Axis::X,
+            filter: None,
+        };
+        let s = rider_signals(&r, &seated).unwrap();
+        assert!((s.peaks()[0].raw_max_g - 1.0).abs() < 1e-12);
+        assert!(s.peaks()[0].raw_min_g > 0.999);
+        let tower = Rider {
+            track_axis: Axis::Z,
+            filter: None,
+        };
+        // Moving up the tower (towards −s) the brake pushes down: −z.
+        let s = rider_signals(&r, &tower).unwrap();
+        assert!((s.peaks()[2].raw_min_g + 1.0).abs() < 1e-12);
+    }
+
+    #[test]
+    fn too_few_samples_is_an_error_not_a_silence() {
+        let r = run_with(vec![sample(0.0, 0.0, 1.0)]);
+        let seated = Rider {
+            track_axis: Axis::X,
+            filter: None,
+        };
+        assert_eq!(
+            rider_signals(&r, &seated).err(),
+            Some(RiderSignalError::TooFewSamples)
+        );
     }
 }

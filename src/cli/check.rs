@@ -19,6 +19,9 @@ pub struct CheckArgs {
     /// Check only this case.
     #[arg(long)]
     pub case: Option<String>,
+    /// Treat warnings about the limits (a braking side left unlimited) as errors (exit 2).
+    #[arg(long)]
+    pub strict: bool,
 }
 
 /// Runs `check`.
@@ -28,7 +31,14 @@ pub fn execute(a: &CheckArgs) -> Result<i32, Error> {
     if a.json {
         emit(&pretty(&v)?)?;
     } else {
-        emit(&verdict_text(&v))?;
+        emit(&verdict_text(&v, &study.scenario().rider))?;
+    }
+    if a.strict && !v.warnings.is_empty() {
+        return Err(Error::Usage(format!(
+            "--strict: {} warning(s) about the limits: {}",
+            v.warnings.len(),
+            v.warnings.join("; ")
+        )));
     }
     Ok(if v.pass { EXIT_OK } else { EXIT_LIMIT_FAILED })
 }

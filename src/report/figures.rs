@@ -130,7 +130,7 @@ pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
     let ax = track_axis_index(s);
     let mut series = Vec::new();
     for (i, r) in runs.iter().enumerate() {
-        let Some(sig) = rider_signals(r, &s.rider) else {
+        let Ok(sig) = rider_signals(r, &s.rider) else {
             continue;
         };
         let pts = |u: &crate::checks::filter::UniformSignal| {
@@ -204,7 +204,7 @@ pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
     };
     let mut series = Vec::new();
     for (i, r) in runs.iter().enumerate() {
-        let Some(sig) = rider_signals(r, &s.rider) else {
+        let Ok(sig) = rider_signals(r, &s.rider) else {
             continue;
         };
         let u = &sig.filtered[ax];

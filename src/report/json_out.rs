@@ -113,6 +113,7 @@ pub struct HeatFinJson<'a> {
     rise_per_pass_k: f64,
     peak_temperature_c: f64,
     steady_peak_temperature_c: f64,
+    steady_start_temperature_c: f64,
     cycles_to_steady: Option<u32>,
     time_constant_s: Option<f64>,
 }
@@ -169,6 +170,7 @@ impl<'a> HeatJson<'a> {
                             rise_per_pass_k: f.rise_per_pass_k,
                             peak_temperature_c: f.peak_temperature_c,
                             steady_peak_temperature_c: f.steady_peak_temperature_c,
+                            steady_start_temperature_c: f.steady_start_temperature_c,
                             cycles_to_steady: f.cycles_to_steady,
                             time_constant_s: f.time_constant_s,
                         })

@@ -3,11 +3,12 @@
 
 use super::text::{num, Table};
 use super::CAUTION;
+use crate::checks::rider::sign_convention;
 use crate::checks::Verdict;
 use crate::curve::PairCurve;
 use crate::dynamics::RunResult;
 use crate::plan::PlanResult;
-use crate::scenario::Scenario;
+use crate::scenario::{Rider, Scenario};
 use crate::thermal::CaseHeat;
 
 /// Appends a formatted line to a `String`.
@@ -77,37 +78,105 @@ pub fn run_text(scenario_name: &str, results: &[RunResult]) -> String {
     out
 }
 
-/// The readable verdict: one row per case and check, then the worst case of each check.
-pub fn verdict_text(v: &Verdict) -> String {
+/// The readable verdict: the sign convention, one row per case and check, the worst case of
+/// each check, the failing cases and checks, the warnings and the caution.
+pub fn verdict_text(v: &Verdict, rider: &Rider) -> String {
+    let states = v
+        .cases
+        .iter()
+        .flat_map(|c| &c.checks)
+        .any(|r| r.state.is_some());
     // `value` is the filtered signal where a filter applies; `raw` the unfiltered one.
-    let mut t = Table::new(&[
-        "case", "check", "axis", "value", "raw", "limit", "margin", "unit", "result",
+    let mut head = vec!["case", "check", "axis"];
+    if states {
+        head.push("state");
+    }
+    head.extend([
+        "value", "raw", "limit", "margin", "unit", "at_s", "result", "note",
     ]);
+    let mut t = Table::new(&head);
     for c in &v.cases {
         if c.checks.is_empty() {
-            let mut cells = vec![String::new(); 9];
+            let mut cells = vec![String::new(); head.len()];
             cells[0] = c.case.clone();
             cells[1] = "(no limits)".into();
-            cells[8] = "pass".into();
+            cells[head.len() - 2] = "pass".into();
             t.row(cells);
         }
         for r in &c.checks {
-            t.row(vec![
+            let mut cells = vec![
                 c.case.clone(),
                 r.check.clone(),
                 r.axis.clone().unwrap_or_default(),
+            ];
+            if states {
+                cells.push(r.state.map(|s| s.name().to_string()).unwrap_or_default());
+            }
+            cells.extend([
                 num(r.value, 3),
                 r.raw_value.map(|v| format!("{v:.3}")).unwrap_or_default(),
                 num(r.limit, 3),
                 num(r.margin, 3),
                 r.unit.clone(),
+                r.at_duration_s
+                    .map(|d| format!("{d:.3}"))
+                    .unwrap_or_default(),
                 if r.pass { "pass".into() } else { "FAIL".into() },
+                r.not_evaluated
+                    .as_ref()
+                    .map(|n| format!("not evaluated: {n}"))
+                    .unwrap_or_default(),
             ]);
+            t.row(cells);
         }
     }
-    let mut w = Table::new(&["check", "worst_case", "margin"]);
+    let mut whead = vec!["check", "worst_case"];
+    if states {
+        whead.push("state");
+    }
+    whead.extend(["margin", "at_s"]);
+    let mut w = Table::new(&whead);
     for x in &v.worst {
-        w.row(vec![x.check.clone(), x.case.clone(), num(x.margin, 3)]);
+        let mut cells = vec![x.check.clone(), x.case.clone()];
+        if states {
+            cells.push(x.state.map(|s| s.name().to_string()).unwrap_or_default());
+        }
+        cells.push(num(x.margin, 3));
+        cells.push(
+            x.at_duration_s
+                .map(|d| format!("{d:.3}"))
+                .unwrap_or_default(),
+        );
+        w.row(cells);
+    }
+    let mut out = String::new();
+    outln!(out, "{} — check", v.scenario);
+    outln!(out, "{}", sign_convention(rider));
+    if states {
+        outln!(
+            out,
+            "each case is judged at the first dispatch and at the duty cycle's steady state; \
+             every row is the worse of the two (state)"
+        );
+    }
+    out.push_str(&t.render());
+    outln!(out, "\nWorst case of each check");
+    out.push_str(&w.render());
+    for warning in &v.warnings {
+        outln!(out, "warning: {warning}");
+    }
+    outln!(out, "");
+    out.push_str(&verdict_summary(v));
+    outln!(out, "\n{CAUTION}");
+    out
+}
+
+/// The verdict in words: PASS, or FAIL with the failing cases and, per case, its failing checks.
+pub fn verdict_summary(v: &Verdict) -> String {
+    let mut out = String::new();
+    if v.pass {
+        outln!(out, "PASS: every check of every case passed");
+        return out;
     }
     let failed: Vec<&str> = v
         .cases
@@ -115,21 +184,26 @@ pub fn verdict_text(v: &Verdict) -> String {
         .filter(|c| !c.pass)
         .map(|c| c.case.as_str())
         .collect();
-    let summary = if v.pass {
-        "PASS: every check of every case passed".to_string()
-    } else {
-        format!(
-            "FAIL: {} case(s) failed: {}",
-            failed.len(),
-            failed.join(", ")
-        )
-    };
-    format!(
-        "{} — check\n{}\nWorst case of each check\n{}\n{summary}\n\n{CAUTION}\n",
-        v.scenario,
-        t.render(),
-        w.render()
-    )
+    outln!(
+        out,
+        "FAIL: {} case(s) failed: {}",
+        failed.len(),
+        failed.join(", ")
+    );
+    for c in v.cases.iter().filter(|c| !c.pass) {
+        let checks: Vec<String> = c
+            .checks
+            .iter()
+            .filter(|r| !r.pass)
+            .map(|r| match (r.margin, &r.not_evaluated) {
+                (Some(m), _) => format!("{} (margin {m:.3} {})", r.key(), r.unit),
+                (None, Some(n)) => format!("{} (not evaluated: {n})", r.key()),
+                (None, None) => r.key(),
+            })
+            .collect();
+        outln!(out, "  {}: {}", c.case, checks.join("; "));
+    }
+    out
 }
 
 /// The `heat` document: per case the cycles and the fins.

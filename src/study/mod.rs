@@ -13,11 +13,12 @@ pub mod progress;
 pub use crate::dynamics::model::TableCache;
 pub use progress::{Progress, Silent};
 
+use crate::checks::limits::{check_case, combine_states, verdict_of, JudgedState};
 use crate::checks::{verdict, CaseTemperatures, Verdict};
 use crate::curve::{curves, CurveOptions, PairCurve};
 use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult};
 use crate::scenario::Scenario;
-use crate::thermal::{heat_case, CaseHeat, HeatOptions, ThermalError};
+use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
 use rayon::prelude::*;
 
 /// Errors of a study: a computation of the dynamics or thermal layer that could not complete.
@@ -54,8 +55,10 @@ pub struct JudgeOptions {
 /// The judged study: runs, heat and verdict of every case, in case order.
 #[derive(Debug)]
 pub struct Judgement {
-    /// One run per case.
+    /// One run per case (the first dispatch with a duty block).
     pub runs: Vec<RunResult>,
+    /// With a duty block, one run per case at the duty cycle's steady state; else empty.
+    pub steady_runs: Vec<RunResult>,
     /// One heat result per case; empty when it was not needed or could not be computed.
     pub heat: Vec<CaseHeat>,
     /// Why the heat is missing although it was asked for ([`HeatDemand::Always`] only).
@@ -130,8 +133,11 @@ impl Study {
 
     /// Runs every case, computes the fin temperatures the verdict needs, and judges.
     ///
-    /// The fin temperature of a case is judged on the steady peak of its duty cycle (or of its
-    /// single pass without a duty block) whenever a fin-temperature limit is set.
+    /// Without a duty block each case is judged once, from its own fin temperature. With a
+    /// duty block each case is judged at the first dispatch and at the duty cycle's steady state
+    /// (a run starting from the fin temperatures the cycle reaches before a dispatch), and every
+    /// check takes the worse of the two states (the row says which). The fin temperature is
+    /// judged on the peak the state reaches: the first pass's, or the steady cycle's.
     pub fn judge(
         &self,
         options: &JudgeOptions,
@@ -140,7 +146,7 @@ impl Study {
         let s = &self.scenario;
         progress.stage("running cases", None);
         let runs = self.run(&options.run)?;
-        let needed = s.limits.max_fin_temperature_c.is_some();
+        let needed = s.limits.max_fin_temperature_c.is_some() || s.duty.is_some();
         let (heat, heat_failure) = match (options.heat, needed) {
             (HeatDemand::ForVerdict, false) => (Vec::new(), None),
             (_, true) => (self.heat(&HeatOptions::default(), progress)?, None),
@@ -150,10 +156,46 @@ impl Study {
                 Err(e) => return Err(e),
             },
         };
-        let temps = judged_temperatures(s, &heat);
-        let verdict = verdict(s, &runs, &temps);
+        let judged = s.limits.max_fin_temperature_c.is_some();
+        let (verdict, steady_runs) = if s.duty.is_some() {
+            progress.stage("running cases at the steady state", None);
+            let steady_runs: Vec<RunResult> = s
+                .cases
+                .par_iter()
+                .zip(&heat)
+                .map(|(c, h)| {
+                    let o = start_from_states(&h.steady_start, c, options.run.clone());
+                    simulate_case(s, &self.tables, c, &o)
+                })
+                .collect::<Result<_, _>>()?;
+            let cases = s
+                .cases
+                .iter()
+                .zip(heat.iter().zip(runs.iter().zip(&steady_runs)))
+                .map(|(c, (h, (first, steady)))| {
+                    let at = |t: f64| CaseTemperatures {
+                        peak_fin_temperature_c: judged.then_some(t),
+                    };
+                    combine_states(&[
+                        (
+                            JudgedState::First,
+                            check_case(s, c, first, at(h.first_peak_fin_temperature_c)),
+                        ),
+                        (
+                            JudgedState::Steady,
+                            check_case(s, c, steady, at(h.steady_peak_fin_temperature_c)),
+                        ),
+                    ])
+                })
+                .collect();
+            (verdict_of(s, cases), steady_runs)
+        } else {
+            let temps = judged_temperatures(s, &heat);
+            (verdict(s, &runs, &temps), Vec::new())
+        };
         Ok(Judgement {
             runs,
+            steady_runs,
             heat,
             heat_failure,
             verdict,

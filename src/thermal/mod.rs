@@ -13,7 +13,7 @@ pub use duty::{cool_c, steady_peak_c, time_constant_s, STEADY_TOLERANCE_K};
 pub use pass::{run_pass, FinState, PassHeat, DEFAULT_CELL_M};
 
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
-use crate::dynamics::{BrakeTables, DynamicsError, RunResult};
+use crate::dynamics::{BrakeTables, DynamicsError, RunOptions, RunResult};
 use crate::scenario::{Case, Cycles, Mount, Scenario};
 use serde::Serialize;
 
@@ -88,6 +88,9 @@ pub struct FinHeatResult {
     pub rise_last_pass_k: f64,
     /// Highest temperature after the last pass, °C.
     pub steady_peak_temperature_c: f64,
+    /// Highest temperature before the last dispatch (the steady pre-dispatch state with a duty
+    /// block; the case's fin temperature without one), °C.
+    pub steady_start_temperature_c: f64,
     /// First cycle whose peak differs from the previous one by less than 0.1 K (1 for a single
     /// pass; None if never reached).
     pub cycles_to_steady: Option<u32>,
@@ -171,6 +174,10 @@ pub struct CaseHeat {
     /// The last pass (full samples, for profiles).
     #[serde(skip)]
     pub last_run: Option<RunResult>,
+    /// The fin states the last pass started from: the duty cycle's steady pre-dispatch state
+    /// (the case's uniform fin temperature without a duty block).
+    #[serde(skip)]
+    pub steady_start: Vec<FinState>,
 }
 
 fn mount_name(m: Mount) -> &'static str {
@@ -219,6 +226,7 @@ pub fn heat_case(
         .collect();
     let n_fins = scenario.fins.len();
     let mut states = pass::uniform_states(scenario, case.fin_temp_c, options.cell_m);
+    let mut last_start = states.clone();
     let mut cycles: Vec<CycleRow> = Vec::new();
     let mut first: Option<Vec<pass::FinPass>> = None;
     let mut last: Option<PassHeat> = None;
@@ -278,7 +286,10 @@ pub fn heat_case(
         if first.is_none() {
             first = Some(heat.fins.clone());
         }
-        states = heat.fins.iter().map(|f| f.end.clone()).collect();
+        last_start = std::mem::replace(
+            &mut states,
+            heat.fins.iter().map(|f| f.end.clone()).collect(),
+        );
         last = Some(heat);
         if stop_at_steady && case_steady.is_some() {
             break;
@@ -321,6 +332,7 @@ pub fn heat_case(
             energy_last_pass_j: last.fins[i].energy_j,
             rise_last_pass_k: max_of(&last.fins[i].rise_k),
             steady_peak_temperature_c: last.fins[i].end.peak_c(),
+            steady_start_temperature_c: last_start[i].peak_c(),
             cycles_to_steady: fin_steady[i],
             time_constant_s: taus[i].filter(|t| t.is_finite()),
             heated_height_m: matches!(f.mount, Mount::Track { .. })
@@ -380,6 +392,7 @@ pub fn heat_case(
         magnet_temp_c: case.magnet_temp_c,
         warnings,
         last_run: Some(last.run),
+        steady_start: last_start,
         cycles,
     })
 }
@@ -410,5 +423,31 @@ fn rebook(c: &PassHeat, states: &[FinState], _scenario: &Scenario) -> PassHeat {
     PassHeat {
         run: c.run.clone(),
         fins,
+    }
+}
+
+/// Run options that start a case from the given fin states: each vehicle fin at its lumped
+/// temperature, each track fin with its temperature field (cells), on top of `base`.
+pub fn start_from_states(states: &[FinState], case: &Case, base: RunOptions) -> RunOptions {
+    RunOptions {
+        fin_start_temps_c: Some(
+            states
+                .iter()
+                .map(|s| match s {
+                    FinState::Lumped(t) => *t,
+                    FinState::Field(_) => case.fin_temp_c,
+                })
+                .collect(),
+        ),
+        track_fin_fields: Some(
+            states
+                .iter()
+                .map(|s| match s {
+                    FinState::Lumped(_) => None,
+                    FinState::Field(f) => Some(f.clone()),
+                })
+                .collect(),
+        ),
+        ..base
     }
 }
