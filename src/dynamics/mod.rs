@@ -104,7 +104,8 @@ pub struct FinHeat {
     pub end_temp_c: f64,
 }
 
-/// The result of one case.
+/// The result of one case. Its `Serialize` is the case as `run --json` prints it: the fields
+/// below except the ones marked skipped, and `peak_decel_g` beside `peak_decel_m_s2`.
 #[derive(Debug, Clone, Serialize)]
 pub struct RunResult {
     /// Case name.
@@ -113,8 +114,6 @@ pub struct RunResult {
     pub mass_kg: f64,
     /// How it ended.
     pub outcome: Outcome,
-    /// Whether the direction of travel reversed at some point.
-    pub reversed: bool,
     /// Speed when the first fin meets the first active section, m/s (None: never entered).
     pub entry_speed_m_s: Option<f64>,
     /// Signed speed along the track when the vehicle left the zone, m/s.
@@ -124,6 +123,7 @@ pub struct RunResult {
     /// Front position at the stall, m.
     pub stall_position_m: Option<f64>,
     /// Peak deceleration along the direction of travel inside the zone, m/s².
+    #[serde(flatten, serialize_with = "serialize_peak_decel")]
     pub peak_decel_m_s2: Option<f64>,
     /// Time of the peak, s.
     pub peak_decel_time_s: Option<f64>,
@@ -134,14 +134,17 @@ pub struct RunResult {
     /// From entry to exit (or stall / end), s.
     pub time_in_zone_s: Option<f64>,
     /// Entry time, s.
+    #[serde(skip)]
     pub entry_time_s: Option<f64>,
     /// ∫ |brake force · v| dt, J.
     pub braking_energy_j: f64,
     /// Work done against resistance, J.
+    #[serde(skip)]
     pub resistance_energy_j: f64,
     /// Kinetic + potential + dissipated − initial, J.
     pub energy_residual_j: f64,
     /// Initial kinetic + potential energy (reference 0 at s = 0), J.
+    #[serde(skip)]
     pub initial_energy_j: f64,
     /// Largest |brake force|, N.
     pub peak_brake_force_n: f64,
@@ -149,15 +152,33 @@ pub struct RunResult {
     pub steps: u64,
     /// Right-hand-side evaluations.
     pub rhs_evaluations: u64,
+    /// Whether the direction of travel reversed at some point.
+    pub reversed: bool,
     /// End time, s.
+    #[serde(skip)]
     pub end_time_s: f64,
     /// Per-fin heat.
+    #[serde(skip)]
     pub fins: Vec<FinHeat>,
     /// Warnings (e.g. a measured curve left its range).
     pub warnings: Vec<String>,
     /// Samples (every dt and at events; inside the zone only unless full sampling was asked for).
     #[serde(skip)]
     pub samples: Vec<Sample>,
+}
+
+/// Serializes the peak deceleration as `peak_decel_m_s2` and, beside it, `peak_decel_g` (the
+/// same peak in units of standard gravity).
+fn serialize_peak_decel<S: serde::Serializer>(
+    peak_m_s2: &Option<f64>,
+    serializer: S,
+) -> Result<S::Ok, S::Error> {
+    use serde::ser::SerializeMap;
+    let mut map = serializer.serialize_map(Some(2))?;
+    map.serialize_entry("peak_decel_m_s2", peak_m_s2)?;
+    let peak_g = peak_m_s2.map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2);
+    map.serialize_entry("peak_decel_g", &peak_g)?;
+    map.end()
 }
 
 impl RunResult {

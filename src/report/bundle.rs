@@ -22,7 +22,7 @@ pub struct Summary<'a> {
     /// The verdict.
     pub verdict: &'a Verdict,
     /// The runs.
-    pub run: RunJson,
+    pub run: RunJson<'a>,
     /// Fin heat of every case (duty cycle or single pass), in case order; empty when it could
     /// not be computed.
     pub heat: &'a [CaseHeat],

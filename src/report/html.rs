@@ -139,11 +139,7 @@ fn runs_table(runs: &[RunResult], out: &mut String) {
             num(r.entry_speed_m_s, 2),
             num(r.exit_speed_m_s, 2),
             num(r.min_speed_m_s, 2),
-            num(
-                r.peak_decel_m_s2
-                    .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2),
-                3
-            ),
+            num(r.peak_decel_g(), 3),
             num(r.peak_onset_g_s, 2),
             num(r.time_in_zone_s, 3),
             num(Some(r.braking_energy_j / 1e3), 1),

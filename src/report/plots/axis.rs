@@ -321,6 +321,13 @@ fn log_ticks(lo: f64, hi: f64, target: usize) -> (Vec<f64>, Vec<f64>) {
     let k0 = (lo.log10() - 1e-9).ceil() as i32;
     let k1 = (hi.log10() + 1e-9).floor() as i32;
     let in_range = |v: f64| v >= lo * (1.0 - 1e-9) && v <= hi * (1.0 + 1e-9);
+    // d · 10^k for every decade k and mantissa d, in order, within the range.
+    let multiples = |decades: std::ops::RangeInclusive<i32>, mantissas: &[i32]| -> Vec<f64> {
+        decades
+            .flat_map(|k| mantissas.iter().map(move |&d| f64::from(d) * 10f64.powi(k)))
+            .filter(|&v| in_range(v))
+            .collect()
+    };
     let decades = (k1 - k0 + 1).max(0) as usize;
     let mut major = Vec::new();
     let mut minor = Vec::new();
@@ -332,36 +339,14 @@ fn log_ticks(lo: f64, hi: f64, target: usize) -> (Vec<f64>, Vec<f64>) {
             }
         }
         if every == 1 && decades <= 12 {
-            for k in (k0 - 1)..=k1 {
-                for d in 2..=9 {
-                    let v = f64::from(d) * 10f64.powi(k);
-                    if in_range(v) {
-                        minor.push(v);
-                    }
-                }
-            }
+            minor = multiples((k0 - 1)..=k1, &[2, 3, 4, 5, 6, 7, 8, 9]);
         }
     } else {
         let kl = lo.log10().floor() as i32;
         let kh = hi.log10().floor() as i32;
-        for k in kl..=kh {
-            for d in [1, 2, 5] {
-                let v = f64::from(d) * 10f64.powi(k);
-                if in_range(v) {
-                    major.push(v);
-                }
-            }
-        }
+        major = multiples(kl..=kh, &[1, 2, 5]);
         if major.len() < 3 {
-            major.clear();
-            for k in kl..=kh {
-                for d in 1..=9 {
-                    let v = f64::from(d) * 10f64.powi(k);
-                    if in_range(v) {
-                        major.push(v);
-                    }
-                }
-            }
+            major = multiples(kl..=kh, &[1, 2, 3, 4, 5, 6, 7, 8, 9]);
         }
         if major.len() < 2 {
             major = vec![lo, hi];

@@ -22,21 +22,21 @@
 mod axis;
 mod geom;
 mod glyphs;
+mod legend;
 #[cfg(test)]
 mod tests;
-
-use std::collections::BTreeMap;
-use std::sync::OnceLock;
+mod text;
 
 use plotters::coord::Shift;
 use plotters::element::DashedPathElement;
 use plotters::prelude::*;
-use plotters::style::text_anchor::{HPos, Pos, VPos};
-use plotters::style::{register_font, FontDesc, FontFamily, FontStyle, FontTransform};
+use plotters::style::text_anchor::{HPos, VPos};
 
 use axis::{Axis, Which};
 use geom::Rect;
-use glyphs::{line_height, FontMetrics};
+use glyphs::line_height;
+use legend::{draw_legend, Legend, LegendEntry};
+use text::{ensure_font, fit_text, put_text, text_size};
 
 /// A chart: lines over shaded spans and reference lines. Labels carry units, e.g.
 /// `"speed (m/s)"`; numbers are in whatever unit the labels state.
@@ -233,66 +233,8 @@ fn draw_error<E: std::fmt::Display>(e: E) -> PlotError {
     PlotError::Draw(e.to_string())
 }
 
-/// Registers the embedded font once per process.
-fn ensure_font() -> Result<(), PlotError> {
-    static REGISTERED: OnceLock<bool> = OnceLock::new();
-    let ok = *REGISTERED.get_or_init(|| register_font(FAMILY, FontStyle::Normal, FONT_TTF).is_ok());
-    if ok {
-        Ok(())
-    } else {
-        Err(PlotError::Font)
-    }
-}
-
-fn font(size: f64) -> FontDesc<'static> {
-    FontDesc::new(FontFamily::Name(FAMILY), size, FontStyle::Normal)
-}
-
-/// Width and height of `text` at `size`, px, from the embedded font's metrics.
-fn text_size(text: &str, size: f64) -> Result<(u32, u32), PlotError> {
-    match FontMetrics::embedded() {
-        Some(m) => Ok(m.text_box(text, size)),
-        None => font(size).box_size(text).map_err(|_| PlotError::Font),
-    }
-}
-
-/// `text` shortened with an ellipsis so that it is at most `max_w` px wide.
-fn fit_text(text: &str, size: f64, max_w: u32) -> Result<String, PlotError> {
-    if text_size(text, size)?.0 <= max_w {
-        return Ok(text.to_string());
-    }
-    let chars: Vec<char> = text.chars().collect();
-    // Binary search on the number of characters kept.
-    let (mut lo, mut hi) = (0usize, chars.len());
-    while lo < hi {
-        let mid = (lo + hi).div_ceil(2);
-        let candidate: String = chars[..mid].iter().collect::<String>() + "…";
-        if text_size(&candidate, size)?.0 <= max_w {
-            lo = mid;
-        } else {
-            hi = mid - 1;
-        }
-    }
-    Ok(chars[..lo].iter().collect::<String>() + "…")
-}
-
 fn rgb((r, g, b): (u8, u8, u8)) -> RGBColor {
     RGBColor(r, g, b)
-}
-
-/// What a legend row shows beside its text.
-#[derive(Debug, Clone, Copy, PartialEq)]
-enum Swatch {
-    Line { color: RGBColor, dashed: bool },
-    Fill { tint: RGBColor },
-    HLine,
-    VLine,
-}
-
-#[derive(Debug, Clone, PartialEq)]
-struct LegendEntry {
-    swatch: Swatch,
-    text: String,
 }
 
 /// One series ready to draw, in data units.
@@ -318,6 +260,12 @@ struct Metrics {
     swatch_w: u32,
     row_h: u32,
     pad: u32,
+    /// (dash, gap) of dashed series, px.
+    series_dash: (u32, u32),
+    /// (dash, gap) of horizontal reference lines, px.
+    h_line_dash: (u32, u32),
+    /// (dot, gap) of vertical reference lines, px.
+    v_line_dots: (u32, u32),
 }
 
 impl Metrics {
@@ -326,6 +274,9 @@ impl Metrics {
             .min(f64::from(h) / 500.0)
             .clamp(0.75, 3.0);
         let px = |v: f64| (v * s).round().max(1.0) as u32;
+        let (line_w, ref_w) = (px(2.0), px(1.5));
+        let dash = |d: u32| (d, d * 2 / 3);
+        let dot = ref_w.max(1) + 1;
         Metrics {
             title: 21.0 * s,
             desc: 17.0 * s,
@@ -333,11 +284,14 @@ impl Metrics {
             legend: 15.0 * s,
             note: 13.0 * s,
             margin: px(14.0),
-            line_w: px(2.0),
-            ref_w: px(1.5),
+            line_w,
+            ref_w,
             swatch_w: px(30.0),
             row_h: px(22.0),
             pad: px(8.0),
+            series_dash: dash(line_w * 4),
+            h_line_dash: dash((f64::from(ref_w) * 4.0).round() as u32),
+            v_line_dots: (dot, dot + 1),
         }
     }
 }
@@ -377,57 +331,11 @@ impl Plan {
         }
         ensure_font()?;
         let m = Metrics::for_size(size);
-
-        // Legend entries and band tints.
-        let mut tints: BTreeMap<&str, RGBColor> = BTreeMap::new();
-        let mut legend = Vec::new();
-        for (i, s) in chart.series.iter().enumerate() {
-            let text = if s.name.is_empty() {
-                format!("series {}", i + 1)
-            } else {
-                s.name.clone()
-            };
-            legend.push(LegendEntry {
-                swatch: Swatch::Line {
-                    color: rgb(palette_color(s.color)),
-                    dashed: s.dashed,
-                },
-                text,
-            });
-        }
-        for band in chart.x_bands.iter().chain(&chart.y_bands) {
-            if tints.contains_key(band.label.as_str()) {
-                continue;
-            }
-            let tint = rgb(BAND_TINTS[tints.len() % BAND_TINTS.len()]);
-            tints.insert(band.label.as_str(), tint);
-            if !band.label.is_empty() {
-                legend.push(LegendEntry {
-                    swatch: Swatch::Fill { tint },
-                    text: band.label.clone(),
-                });
-            }
-        }
-        for (lines, swatch) in [
-            (&chart.h_lines, Swatch::HLine),
-            (&chart.v_lines, Swatch::VLine),
-        ] {
-            for line in lines.iter().filter(|l| !l.label.is_empty()) {
-                legend.push(LegendEntry {
-                    swatch,
-                    text: line.label.clone(),
-                });
-            }
-        }
-        let legend_text_max = ((f64::from(w) * 0.38) as u32).saturating_sub(m.swatch_w + 4 * m.pad);
-        let mut legend_w = 0;
-        for entry in &mut legend {
-            entry.text = fit_text(&entry.text, m.legend, legend_text_max)?;
-            legend_w = legend_w.max(text_size(&entry.text, m.legend)?.0);
-        }
-        if !legend.is_empty() {
-            legend_w = (legend_w + m.swatch_w + 4 * m.pad).min(w * 2 / 5);
-        }
+        let Legend {
+            entries: legend,
+            tints,
+            width: legend_w,
+        } = Legend::new(chart, &m, w)?;
 
         // Axes: ranges from everything that is drawn, unless given.
         let mut xs: Vec<f64> = Vec::new();
@@ -562,63 +470,6 @@ impl Plan {
     }
 }
 
-/// Draws `text` on `root` with its anchor point at `pos` (root pixels). For bitmaps
-/// (`per_glyph`) the text is drawn one character at a time at the offsets the font metrics
-/// give, which places glyphs correctly (see the `glyphs` module); for SVG it stays one `<text>`
-/// element.
-#[allow(clippy::too_many_arguments)]
-fn put_text<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    per_glyph: bool,
-    text: &str,
-    pos: (i32, i32),
-    size: f64,
-    color: RGBColor,
-    anchor: (HPos, VPos),
-    rotate: bool,
-) -> Result<(), PlotError> {
-    if text.is_empty() {
-        return Ok(());
-    }
-    let transform = || {
-        if rotate {
-            FontTransform::Rotate270
-        } else {
-            FontTransform::None
-        }
-    };
-    let style = font(size).transform(transform()).color(&color);
-    match FontMetrics::embedded() {
-        Some(m) if per_glyph => {
-            let width = m.advance(text, size);
-            let dx = match anchor.0 {
-                HPos::Left => 0.0,
-                HPos::Right => -width,
-                HPos::Center => -width / 2.0,
-            };
-            let height = line_height(size) as i32;
-            let dy = match anchor.1 {
-                VPos::Top => 0,
-                VPos::Center => -height / 2,
-                VPos::Bottom => -height,
-            };
-            let (placed, _) = m.placements(text, size, dx);
-            let style = style.pos(Pos::new(HPos::Left, VPos::Top));
-            let trans = transform();
-            let mut buf = [0u8; 4];
-            for (c, offset) in placed {
-                let (tx, ty) = trans.transform(offset, dy);
-                root.draw_text(c.encode_utf8(&mut buf), &style, (pos.0 + tx, pos.1 + ty))
-                    .map_err(draw_error)?;
-            }
-            Ok(())
-        }
-        _ => root
-            .draw_text(text, &style.pos(Pos::new(anchor.0, anchor.1)), pos)
-            .map_err(draw_error),
-    }
-}
-
 fn draw<DB: DrawingBackend>(
     root: &DrawingArea<DB, Shift>,
     plan: &Plan,
@@ -650,16 +501,18 @@ fn draw<DB: DrawingBackend>(
     let (ylo, yhi) = plan.y.bounds();
 
     // Bands under everything.
-    for &(f, t, tint) in &plan.x_bands {
+    let x_spans = plan
+        .x_bands
+        .iter()
+        .map(|&(f, t, tint)| ([(f, ylo), (t, yhi)], tint));
+    let y_spans = plan
+        .y_bands
+        .iter()
+        .map(|&(f, t, tint)| ([(xlo, f), (xhi, t)], tint));
+    for (corners, tint) in x_spans.chain(y_spans) {
         let fill = tint.mix(BAND_ALPHA).filled();
         chart
-            .draw_series(std::iter::once(Rectangle::new([(f, ylo), (t, yhi)], fill)))
-            .map_err(draw_error)?;
-    }
-    for &(f, t, tint) in &plan.y_bands {
-        let fill = tint.mix(BAND_ALPHA).filled();
-        chart
-            .draw_series(std::iter::once(Rectangle::new([(xlo, f), (xhi, t)], fill)))
+            .draw_series(std::iter::once(Rectangle::new(corners, fill)))
             .map_err(draw_error)?;
     }
 
@@ -761,14 +614,12 @@ fn draw<DB: DrawingBackend>(
 
     // Reference lines.
     let ref_style = REF_COLOR.stroke_width(m.ref_w);
-    let dash = (f64::from(m.ref_w) * 4.0).round() as u32;
-    let dot = m.ref_w.max(1) + 1;
     for (at, _) in &plan.h_lines {
         chart
             .draw_series(std::iter::once(DashedPathElement::new(
                 vec![(xlo, *at), (xhi, *at)],
-                dash,
-                dash * 2 / 3,
+                m.h_line_dash.0,
+                m.h_line_dash.1,
                 ref_style,
             )))
             .map_err(draw_error)?;
@@ -777,8 +628,8 @@ fn draw<DB: DrawingBackend>(
         chart
             .draw_series(std::iter::once(DashedPathElement::new(
                 vec![(*at, ylo), (*at, yhi)],
-                dot,
-                dot + 1,
+                m.v_line_dots.0,
+                m.v_line_dots.1,
                 ref_style,
             )))
             .map_err(draw_error)?;
@@ -789,12 +640,11 @@ fn draw<DB: DrawingBackend>(
         let style = s.color.stroke_width(m.line_w);
         for line in &s.lines {
             if s.dashed {
-                let d = m.line_w * 4;
                 chart
                     .draw_series(std::iter::once(DashedPathElement::new(
                         line.iter().copied(),
-                        d,
-                        d * 2 / 3,
+                        m.series_dash.0,
+                        m.series_dash.1,
                         style,
                     )))
                     .map_err(draw_error)?;
@@ -886,95 +736,4 @@ fn label_stride(ticks: &[(i32, String)], size: f64, pad: u32) -> Result<usize, P
         .max(1);
     let need = (widest + pad) as i32;
     Ok(((need + spacing - 1) / spacing).max(1) as usize)
-}
-
-/// The legend: one row per entry right of the plot, from the top of the plot area down; rows
-/// that do not fit are summarised as "+N more".
-fn draw_legend<DB: DrawingBackend>(
-    root: &DrawingArea<DB, Shift>,
-    plan: &Plan,
-    x_left: i32,
-    top_px: i32,
-    per_glyph: bool,
-) -> Result<(), PlotError> {
-    if plan.legend.is_empty() {
-        return Ok(());
-    }
-    let m = &plan.m;
-    let (_, h) = plan.size;
-    let row = m.row_h as i32;
-    let x0 = x_left + m.pad as i32;
-    let sw = m.swatch_w as i32;
-    let rows_fit = ((h as i32 - top_px - m.margin as i32) / row).max(1) as usize;
-    let shown = if plan.legend.len() > rows_fit {
-        rows_fit - 1
-    } else {
-        plan.legend.len()
-    };
-    for (i, entry) in plan.legend.iter().take(shown).enumerate() {
-        let cy = top_px + row * i as i32 + row / 2;
-        match entry.swatch {
-            Swatch::Line { color, dashed } => {
-                let style = color.stroke_width(m.line_w);
-                let pts = vec![(x0, cy), (x0 + sw, cy)];
-                if dashed {
-                    let d = m.line_w * 4;
-                    root.draw(&DashedPathElement::new(pts, d, d * 2 / 3, style))
-                } else {
-                    root.draw(&PathElement::new(pts, style))
-                }
-            }
-            Swatch::Fill { tint } => {
-                let half = row / 3;
-                root.draw(&Rectangle::new(
-                    [(x0, cy - half), (x0 + sw, cy + half)],
-                    tint.mix(BAND_ALPHA * 2.0).filled(),
-                ))
-            }
-            Swatch::HLine => {
-                let d = (f64::from(m.ref_w) * 4.0).round() as u32;
-                root.draw(&DashedPathElement::new(
-                    vec![(x0, cy), (x0 + sw, cy)],
-                    d,
-                    d * 2 / 3,
-                    REF_COLOR.stroke_width(m.ref_w),
-                ))
-            }
-            Swatch::VLine => {
-                let d = m.ref_w.max(1) + 1;
-                let half = row / 2 - 2;
-                root.draw(&DashedPathElement::new(
-                    vec![(x0 + sw / 2, cy - half), (x0 + sw / 2, cy + half)],
-                    d,
-                    d + 1,
-                    REF_COLOR.stroke_width(m.ref_w),
-                ))
-            }
-        }
-        .map_err(draw_error)?;
-        put_text(
-            root,
-            per_glyph,
-            &entry.text,
-            (x0 + sw + m.pad as i32, cy),
-            m.legend,
-            TEXT_COLOR,
-            (HPos::Left, VPos::Center),
-            false,
-        )?;
-    }
-    if shown < plan.legend.len() {
-        let cy = top_px + row * shown as i32 + row / 2;
-        put_text(
-            root,
-            per_glyph,
-            &format!("+{} more", plan.legend.len() - shown),
-            (x0, cy),
-            m.legend,
-            TEXT_COLOR,
-            (HPos::Left, VPos::Center),
-            false,
-        )?;
-    }
-    Ok(())
 }
