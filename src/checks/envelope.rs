@@ -22,12 +22,47 @@
 //! M. Werman, "Computing 2-D min, median, and max filters", IEEE Trans. PAMI 15, 1993), so one
 //! duration costs O(n) with three comparisons per sample.
 //! D/dt within a relative 1e-9 of an integer is taken as that integer.
+//!
+//! # The exact envelope check
+//!
+//! **Definition.** The samples y₀ … y_{n−1} (step dt) are read as the piecewise-linear function
+//! y(t) through them on [0, T], T = (n − 1)·dt, and S(D) = max over t of min over [t, t + D] of
+//! y for 0 ≤ D ≤ T (the largest level L such that {y ≥ L} contains an interval of length ≥ D,
+//! lengths measured on the interpolated signal, not in whole samples). This is the definition
+//! the dense grid used before, so results change only by what the grid missed. S is continuous,
+//! non-increasing and piecewise linear on [0, T]; S(D) = −∞ beyond T.
+//!
+//! **Reformulation.** With F(D) = min over D′ ≤ D of allowed(D′) (the envelope's running
+//! minimum, non-increasing) and W(L) the longest component of {y ≥ L},
+//!
+//! min over D of (allowed(D) − S(D)) = min over levels L of (F(W(L)) − L)
+//!                                   = min over L and components C of {y ≥ L} of (F(|C|) − L),
+//!
+//! because S(D) ≥ L exactly when W(L) ≥ D, and F is non-increasing (so the longest component is
+//! the worst, and any component may be used). No upper envelope of components is needed.
+//!
+//! **Sweep.** Between consecutive sample values a component keeps the same samples and its two
+//! ends move along fixed segments, so |C| is linear in L; such a piece is identified by the
+//! sample t that is the leftmost minimum inside it, bounded by the last sample before t that is
+//! < y_t and the first after t that is < y_t; it covers the levels from y_t down to the higher
+//! of those two. All pieces come from one pass with a monotone stack (n pieces at most). On a
+//! piece, F(|C(L)|) − L is linear between the levels where |C(L)| meets a breakpoint of F, so
+//! its minimum is at the piece's two ends or at those levels (solved from the linear |C(L)|);
+//! evaluating them gives the minimum exactly (up to rounding). A piece whose bound
+//! F(|C| at its lowest level) − (its highest level) cannot beat the best so far is skipped.
+//! Lengths and envelope durations are counted in steps and, like D/dt above, snapped to a whole
+//! number within a relative 1e-9, so a component of exactly k steps meets a step of the
+//! envelope at k·dt. Cost for n samples and an envelope of m points: O(n·log m + K) time, K ≤
+//! n·m the breakpoints of F crossed by the pieces (few in practice), O(n + m) memory. The
+//! binding duration is the shortest D with allowed(D) = F(|C|) at the worst candidate; S there
+//! equals the binding level.
 
 use super::filter::{SignalError, UniformSignal};
 use rayon::prelude::*;
 
-/// Default cap on the number of grid durations [`Envelope::check`] evaluates besides the
-/// envelope breakpoints (see [`Envelope::check_with_grid`] for what the cap costs in accuracy).
+/// A customary cap on the number of grid durations for [`Envelope::check_with_grid`] besides the
+/// envelope breakpoints (the value the grid evaluation used before [`Envelope::check`] became
+/// exact; see [`Envelope::check_with_grid`] for what the cap costs in accuracy).
 pub const DEFAULT_MAX_GRID_DURATIONS: usize = 1024;
 
 /// Samples × durations above which [`sustained_curve`] runs durations in parallel.
@@ -105,13 +140,8 @@ fn sustained_level_unchecked(y: &[f64], dt_s: f64, duration_s: f64, scratch: &mu
         return f64::NEG_INFINITY;
     }
     let last = (n - 1) as f64;
-    let q = duration_s / dt_s;
-    let nearest = q.round();
-    let (m_f, r) = if (q - nearest).abs() <= STEP_SNAP_REL * q.max(1.0) {
-        (nearest, 0.0)
-    } else {
-        (q.floor(), q - q.floor())
-    };
+    let q = snap_steps(duration_s, dt_s);
+    let (m_f, r) = (q.floor(), q - q.floor());
     if m_f.is_nan() || m_f > last || (m_f == last && r > 0.0) {
         return f64::NEG_INFINITY;
     }
@@ -231,8 +261,9 @@ pub struct Envelope {
 /// Outcome of [`Envelope::check`]. Levels are in the unit of the signal.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct EnvelopeResult {
-    /// Smallest allowed(D) − S(D) over the evaluated durations; negative means the signal
-    /// exceeds the envelope.
+    /// Smallest allowed(D) − S(D): over every duration for [`Envelope::check`], over the
+    /// evaluated durations for [`Envelope::check_with_grid`]; negative means the signal exceeds
+    /// the envelope.
     pub worst_margin: f64,
     /// Duration at which the worst margin occurs, s (the shortest one on a tie).
     pub duration_s: f64,
@@ -241,9 +272,11 @@ pub struct EnvelopeResult {
     /// allowed at that duration.
     pub allowed: f64,
     /// A guaranteed lower bound on allowed(D) − S(D) over **all** durations (not just the
-    /// evaluated ones), from S being non-increasing; ≤ `worst_margin`.
+    /// evaluated ones), from S being non-increasing; ≤ `worst_margin` (equal to it for the
+    /// exact [`Envelope::check`]).
     pub margin_lower_bound: f64,
-    /// Number of durations evaluated.
+    /// Number of durations evaluated (grid), or of candidate (level, duration) points examined
+    /// (exact check).
     pub durations_evaluated: usize,
 }
 
@@ -318,14 +351,38 @@ impl Envelope {
         (v, v, v)
     }
 
-    /// Checks `signal` against the envelope with at most [`DEFAULT_MAX_GRID_DURATIONS`] grid
-    /// durations; see [`Envelope::check_with_grid`].
+    /// Checks `signal` against the envelope exactly: the smallest allowed(D) − S(D) over **every**
+    /// duration D ≥ 0 (not a grid), with the binding duration, for the piecewise-linear reading
+    /// of the signal (see the module documentation for the algorithm and its cost, O(n) for the
+    /// sweep plus the envelope breakpoints each component crosses).
+    ///
+    /// The result has `margin_lower_bound == worst_margin` (nothing is left between grid points)
+    /// and `durations_evaluated` counts the candidate (level, duration) points examined. The
+    /// binding duration is the shortest D at which the margin is reached: where the envelope is
+    /// flat or rising past its running minimum, the start of that stretch.
+    ///
+    /// Errors: the signal breaks the [`UniformSignal`] invariants or has no samples.
     pub fn check(&self, signal: &UniformSignal) -> Result<EnvelopeResult, SignalError> {
-        self.check_with_grid(signal, DEFAULT_MAX_GRID_DURATIONS)
+        signal.validate()?;
+        if signal.is_empty() {
+            return Err(SignalError::Empty);
+        }
+        let floor = Floor::new(&self.points, signal.dt_s);
+        let best = exact_worst(&signal.values, &floor);
+        let (_, duration_s) = floor.first_reaching(best.allowed, best.steps, signal.dt_s);
+        Ok(EnvelopeResult {
+            worst_margin: best.margin,
+            duration_s,
+            sustained: best.level,
+            allowed: best.allowed,
+            margin_lower_bound: best.margin,
+            durations_evaluated: best.candidates,
+        })
     }
 
-    /// Checks `signal` against the envelope: margin allowed(D) − S(D) at every envelope
-    /// breakpoint within the signal length L = (n − 1)·dt, at L itself, and on the grid
+    /// Checks `signal` against the envelope on a grid of durations (the dense evaluation that
+    /// [`Envelope::check`] replaces, kept as a cross-check and for benchmarks): margin
+    /// allowed(D) − S(D) at every envelope breakpoint within the signal length L = (n − 1)·dt, at L itself, and on the grid
     /// D = k·h, h = stride·dt, k = 0, 1, … ≤ L, where stride = ⌈(n − 1)/max_grid_durations⌉
     /// (at least 1), so at most about `max_grid_durations` + 2 + breakpoints durations are
     /// evaluated, each costing O(n). Durations beyond L need no check (S = −∞ there).
@@ -387,6 +444,232 @@ impl Envelope {
             }
         }
         Ok(result)
+    }
+}
+
+/// The running minimum of an envelope, F(q) = min over q' ≤ q of allowed(q'), with durations q
+/// in sample steps (D/dt, snapped to a whole number within a relative 1e-9 as in
+/// [`sustained_level`]). Non-increasing and piecewise linear through its points; where two
+/// points share a duration (a step down) the lower value holds at that duration.
+struct Floor {
+    /// Durations in steps (non-decreasing, the first is 0).
+    q: Vec<f64>,
+    /// The same durations in seconds, as given where they come from an envelope point.
+    d_s: Vec<f64>,
+    /// Levels (non-increasing).
+    a: Vec<f64>,
+}
+
+/// A number of steps (≥ 0) snapped to the nearest whole number when within a relative
+/// [`STEP_SNAP_REL`] of it.
+fn snap_whole(q: f64) -> f64 {
+    let nearest = q.round();
+    if (q - nearest).abs() <= STEP_SNAP_REL * q.max(1.0) {
+        nearest
+    } else {
+        q
+    }
+}
+
+/// `duration_s` in steps of `dt_s`, snapped by [`snap_whole`].
+fn snap_steps(duration_s: f64, dt_s: f64) -> f64 {
+    snap_whole(duration_s / dt_s)
+}
+
+impl Floor {
+    /// F for `points` (validated by [`Envelope::new`], so not empty) on a grid of step `dt_s`.
+    /// allowed is constant before the first point, so F starts flat from D = 0. Along each
+    /// segment F stays at the running minimum m until allowed falls below m: F then follows
+    /// allowed from the crossing (or the step) to the segment's end.
+    fn new(points: &[(f64, f64)], dt_s: f64) -> Self {
+        let first = points.first().map_or(0.0, |p| p.1);
+        let mut floor = Self {
+            q: vec![0.0],
+            d_s: vec![0.0],
+            a: vec![first],
+        };
+        let mut m = first;
+        for w in points.windows(2) {
+            let ((d0, a0), (d1, a1)) = (w[0], w[1]);
+            if a1 >= m {
+                continue;
+            }
+            // a0 ≥ m ≥ a1 with a1 < m: the crossing of m lies in [d0, d1] (d0 itself at a step).
+            let start_s = d0 + (d1 - d0) * ((a0 - m) / (a0 - a1));
+            floor.push(start_s, snap_steps(start_s, dt_s), m);
+            floor.push(d1, snap_steps(d1, dt_s), a1);
+            m = a1;
+        }
+        floor
+    }
+
+    fn push(&mut self, d_s: f64, q: f64, a: f64) {
+        let (last_q, last_a) = match (self.q.last(), self.a.last()) {
+            (Some(&q), Some(&a)) => (q, a),
+            _ => (f64::NEG_INFINITY, f64::INFINITY),
+        };
+        if q <= last_q && a >= last_a {
+            return;
+        }
+        self.q.push(q.max(last_q));
+        self.d_s.push(d_s);
+        self.a.push(a.min(last_a));
+    }
+
+    /// F(x), x in steps (≥ 0): the lowest value at a shared duration, linear in between,
+    /// constant past the last point.
+    fn at(&self, x: f64) -> f64 {
+        let hi = self.q.partition_point(|&q| q <= x);
+        if hi == 0 {
+            return self.a[0];
+        }
+        if self.q[hi - 1] == x || hi == self.q.len() {
+            return self.a[hi - 1];
+        }
+        let (q0, q1) = (self.q[hi - 1], self.q[hi]);
+        lerp(self.a[hi - 1], self.a[hi], (x - q0) / (q1 - q0))
+    }
+
+    /// The shortest duration (steps, seconds) at which F reaches `value` = F(x): the first point
+    /// carrying exactly that value (the start of a flat stretch), else x itself (inside a
+    /// falling stretch).
+    fn first_reaching(&self, value: f64, x: f64, dt_s: f64) -> (f64, f64) {
+        let j = self.a.partition_point(|&a| a > value);
+        match (self.a.get(j), self.q.get(j), self.d_s.get(j)) {
+            (Some(&a), Some(&q), Some(&d_s)) if a == value && q <= x => (q, d_s),
+            _ => (x, x * dt_s),
+        }
+    }
+}
+
+/// The worst candidate found by [`exact_worst`].
+struct Binding {
+    /// F(steps) − level.
+    margin: f64,
+    /// Component length at the binding level, steps.
+    steps: f64,
+    /// The binding level (S at the binding duration).
+    level: f64,
+    /// F at `steps` (allowed at the binding duration).
+    allowed: f64,
+    /// Candidates examined.
+    candidates: usize,
+}
+
+impl Binding {
+    /// Takes the candidate (component length `steps` at `level`) when it is worse, or equally
+    /// bad at a shorter binding duration.
+    fn offer(&mut self, floor: &Floor, steps: f64, level: f64) {
+        self.candidates += 1;
+        let allowed = floor.at(steps);
+        let margin = allowed - level;
+        let better = margin < self.margin
+            || (margin == self.margin
+                && floor.first_reaching(allowed, steps, 1.0).0
+                    < floor.first_reaching(self.allowed, self.steps, 1.0).0);
+        if better {
+            *self = Self {
+                margin,
+                steps,
+                level,
+                allowed,
+                candidates: self.candidates,
+            };
+        }
+    }
+}
+
+/// min over D of allowed(D) − S(D) for the piecewise-linear reading of `y` (not empty), as
+/// min over levels L and components C of {y ≥ L} of F(|C|) − L (module documentation).
+///
+/// One left-to-right pass with a stack of sample indices whose values never decrease upwards:
+/// when sample t is popped by k (y[k] < y[t]), the sample below it, p, is the last one before t
+/// with y[p] ≤ y[t], and k the first one after t with y[k] < y[t]. If y[p] < y[t], the samples
+/// p+1 ..= k−1 are exactly the component of {y ≥ L} around t for every L in
+/// [max(y[p], y[k]), y[t]], with its ends on the segments (p, p+1) and (k−1, k), so its length
+/// is linear in L there; if y[p] = y[t] the same component is handled when p is popped.
+/// Every component of every level belongs to exactly one such piece.
+fn exact_worst(y: &[f64], floor: &Floor) -> Binding {
+    let mut best = Binding {
+        margin: f64::INFINITY,
+        steps: 0.0,
+        level: f64::NAN,
+        allowed: f64::NAN,
+        candidates: 0,
+    };
+    let mut stack: Vec<usize> = Vec::with_capacity(64);
+    for k in 0..=y.len() {
+        // k = n flushes the stack: those samples have no smaller one after them.
+        let next = y.get(k).map(|&v| (k, v));
+        while let Some(&t) = stack.last() {
+            if next.is_some_and(|(_, v)| y[t] <= v) {
+                break;
+            }
+            stack.pop();
+            let prev = stack.last().copied();
+            if prev.is_some_and(|p| y[p] == y[t]) {
+                continue;
+            }
+            consider_piece(y, prev, t, next.map(|(k, _)| k), floor, &mut best);
+        }
+        if next.is_some() {
+            stack.push(k);
+        }
+    }
+    best
+}
+
+/// Offers the candidates of one piece (see [`exact_worst`]): the component around `t` bounded
+/// by the samples `prev` and `next` (None at the signal's ends), for levels from y[t] down to
+/// the higher of the bounding samples. On the piece the length ℓ(L) is linear and falling in L,
+/// F(ℓ) − L is linear between the levels where ℓ meets a breakpoint of F, so the candidates are
+/// the two ends and those levels.
+fn consider_piece(
+    y: &[f64],
+    prev: Option<usize>,
+    t: usize,
+    next: Option<usize>,
+    floor: &Floor,
+    best: &mut Binding,
+) {
+    let a = prev.map_or(0, |p| p + 1);
+    let b = next.map_or(y.len() - 1, |k| k - 1);
+    let hi = y[t];
+    let lo = match (prev, next) {
+        (Some(p), Some(k)) => y[p].max(y[k]),
+        (Some(p), None) => y[p],
+        (None, Some(k)) => y[k],
+        (None, None) => hi,
+    };
+    // Length in steps of the component at level L: the samples a..=b plus the parts of the
+    // bounding segments above L (y[a] > y[p] and y[b] > y[k], so no division by zero).
+    let length = |level: f64| {
+        let mut steps = (b - a) as f64;
+        if let Some(p) = prev {
+            steps += (y[a] - level) / (y[a] - y[p]);
+        }
+        if let Some(k) = next {
+            steps += (y[b] - level) / (y[b] - y[k]);
+        }
+        steps
+    };
+    // Snapped like the durations in `sustained_level`, so a component of a whole number of steps
+    // meets an envelope step at that duration.
+    let (len_hi, len_lo) = (snap_whole(length(hi)), snap_whole(length(lo)));
+    // F is non-increasing and ℓ ≤ len_lo, L ≤ hi on the piece: nothing here can be worse.
+    if floor.at(len_lo) - hi > best.margin {
+        return;
+    }
+    best.offer(floor, len_hi, hi);
+    if lo < hi {
+        best.offer(floor, len_lo, lo);
+    }
+    if len_lo > len_hi {
+        let first = floor.q.partition_point(|&q| q <= len_hi);
+        for &x in floor.q[first..].iter().take_while(|&&x| x < len_lo) {
+            let level = hi - (hi - lo) * ((x - len_hi) / (len_lo - len_hi));
+            best.offer(floor, x, level);
+        }
     }
 }
 

@@ -9,7 +9,10 @@
 //! the expanded transfer-function polynomials (same reference, §6.9).
 //!
 //! Project default for ride accelerations: a 4-pole filter with a 5 Hz corner
-//! (`DEFAULT_ORDER`, `DEFAULT_CORNER_HZ`); this is common practice, quoted from memory.
+//! (`DEFAULT_ORDER`, `DEFAULT_CORNER_HZ`); this is common practice, quoted from memory. The
+//! default way of applying it is zero-phase, forward and backward with padded ends
+//! ([`super::zero_phase`], where the order convention is explained); the single causal pass
+//! here ([`Butterworth::filter`]) is the option that reproduces an on-board logger.
 
 use num_complex::Complex64;
 use std::f64::consts::PI;
@@ -114,6 +117,43 @@ pub enum SignalError {
         signal_hz: f64,
         /// Sample rate the filter was designed for, Hz.
         filter_hz: f64,
+    },
+    /// A zero-phase filter order that is odd or outside 2..=2·[`MAX_ORDER`] (the order of a
+    /// forward–backward filter counts both passes, so it is even).
+    #[error(
+        "a zero-phase (forward-backward) filter order must be even, between 2 and {max}, \
+         got {order}"
+    )]
+    InvalidZeroPhaseOrder {
+        /// The rejected order.
+        order: usize,
+        /// The largest accepted order.
+        max: usize,
+    },
+    /// A reflected padding needs more samples than the signal has.
+    #[error(
+        "padding by reflection needs fewer pad samples than signal samples: \
+         {pad_samples} pad samples for {len} samples"
+    )]
+    PadTooLong {
+        /// Requested pad length per end, samples.
+        pad_samples: usize,
+        /// Signal length, samples.
+        len: usize,
+    },
+    /// A differentiation window that is not finite and positive.
+    #[error("differentiation window must be finite and > 0 s, got {window_s} s")]
+    InvalidWindow {
+        /// The rejected window, s.
+        window_s: f64,
+    },
+    /// The signal is shorter than the differentiation window.
+    #[error("the signal ({duration_s} s) is shorter than the differentiation window {window_s} s")]
+    WindowLongerThanSignal {
+        /// The effective window, s.
+        window_s: f64,
+        /// The signal's span, s.
+        duration_s: f64,
     },
     /// An envelope was given no points.
     #[error("an envelope needs at least one point")]
@@ -237,32 +277,9 @@ impl UniformSignal {
 /// Errors: different lengths, no samples, non-finite times or values, decreasing times, a step
 /// that is not finite and positive, or more than [`MAX_RESAMPLED_SAMPLES`] output samples.
 pub fn resample_uniform(t_s: &[f64], y: &[f64], dt_s: f64) -> Result<UniformSignal, SignalError> {
-    if t_s.len() != y.len() {
-        return Err(SignalError::LengthMismatch {
-            t_len: t_s.len(),
-            y_len: y.len(),
-        });
-    }
-    if t_s.is_empty() {
-        return Err(SignalError::Empty);
-    }
+    validate_series(t_s, y)?;
     if !(dt_s.is_finite() && dt_s > 0.0) {
         return Err(SignalError::InvalidStep { dt_s });
-    }
-    for (index, (&t, &v)) in t_s.iter().zip(y).enumerate() {
-        if !t.is_finite() {
-            return Err(SignalError::NonFiniteTime { index });
-        }
-        if !v.is_finite() {
-            return Err(SignalError::NonFiniteValue { index });
-        }
-        if index > 0 && t < t_s[index - 1] {
-            return Err(SignalError::TimeDecreasing {
-                index,
-                previous_s: t_s[index - 1],
-                t_s: t,
-            });
-        }
     }
     let n = t_s.len();
     let t0_s = t_s[0];
@@ -295,6 +312,36 @@ pub fn resample_uniform(t_s: &[f64], y: &[f64], dt_s: f64) -> Result<UniformSign
         values.push(y[i] * (1.0 - frac) + y[i + 1] * frac);
     }
     Ok(UniformSignal { dt_s, t0_s, values })
+}
+
+/// Checks an irregular time series: equal lengths, at least one sample, finite times and
+/// values, times non-decreasing (equal times are an event: a jump).
+pub(super) fn validate_series(t_s: &[f64], y: &[f64]) -> Result<(), SignalError> {
+    if t_s.len() != y.len() {
+        return Err(SignalError::LengthMismatch {
+            t_len: t_s.len(),
+            y_len: y.len(),
+        });
+    }
+    if t_s.is_empty() {
+        return Err(SignalError::Empty);
+    }
+    for (index, (&t, &v)) in t_s.iter().zip(y).enumerate() {
+        if !t.is_finite() {
+            return Err(SignalError::NonFiniteTime { index });
+        }
+        if !v.is_finite() {
+            return Err(SignalError::NonFiniteValue { index });
+        }
+        if index > 0 && t < t_s[index - 1] {
+            return Err(SignalError::TimeDecreasing {
+                index,
+                previous_s: t_s[index - 1],
+                t_s: t,
+            });
+        }
+    }
+    Ok(())
 }
 
 /// Number of whole steps of `dt_s` in `span_s`, snapping to the nearest integer when within a
@@ -502,6 +549,28 @@ impl Butterworth {
             gain *= num.norm() / den.norm();
         }
         gain
+    }
+}
+
+impl Butterworth {
+    /// The largest pole magnitude |z| of the cascade (below 1 for a stable design): the
+    /// impulse response decays no slower than this factor per sample, up to a polynomial factor.
+    pub fn slowest_pole_radius(&self) -> f64 {
+        self.sections
+            .iter()
+            .map(|s| {
+                let [_, a1, a2] = s.a;
+                let disc = a1 * a1 - 4.0 * a2;
+                if disc < 0.0 {
+                    // Complex pair: |z|² = a2.
+                    a2.sqrt()
+                } else {
+                    // Real roots of z² + a1·z + a2 (a2 = 0 for a first-order section).
+                    let r = disc.sqrt();
+                    (0.5 * (-a1 + r)).abs().max((0.5 * (-a1 - r)).abs())
+                }
+            })
+            .fold(0.0, f64::max)
     }
 }
 
