@@ -107,7 +107,7 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
                 continue;
             }
         }
-        let full = fin.length_m.min(sec.length_m);
+        let full = p.overlap.full_length_m();
         let rho = fin.material.resistivity_ratio(fin_t);
         match &p.law {
             PairLaw::Table {

@@ -14,6 +14,8 @@ pub mod curve;
 pub mod dynamics;
 /// Built-in conductor materials, each value with its source.
 pub mod materials;
+/// Small numerical helpers shared by the layers (cubic Hermite interpolation); depends on nothing.
+pub mod numeric;
 /// Drag force of a conducting fin between magnet rows: field harmonics, layer theory, tables.
 pub mod physics;
 /// The layout planner: the shortest module layout that passes every case.

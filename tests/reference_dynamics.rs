@@ -4,7 +4,7 @@
 use eddyzone::constants::STANDARD_GRAVITY_M_S2 as G;
 use eddyzone::dynamics::model::active_pairs;
 use eddyzone::dynamics::track::{resistance_magnitude_n, TrackModel};
-use eddyzone::dynamics::{simulate_case, BrakeTables, Outcome, RunOptions};
+use eddyzone::dynamics::{simulate_case, BrakeTables, Outcome, RunOptions, SolverSettings};
 use eddyzone::scenario::{parse_str, Scenario};
 use std::path::Path;
 
@@ -175,7 +175,11 @@ fn tolerance_convergence() {
                 &t,
                 c,
                 &RunOptions {
-                    tolerances: Some((1e-9, 1e-9)),
+                    solver: Some(SolverSettings {
+                        rtol: 1e-9,
+                        atol: 1e-9,
+                        ..SolverSettings::default()
+                    }),
                     ..RunOptions::default()
                 },
             )
@@ -185,7 +189,11 @@ fn tolerance_convergence() {
                 &t,
                 c,
                 &RunOptions {
-                    tolerances: Some((1e-10, 1e-10)),
+                    solver: Some(SolverSettings {
+                        rtol: 1e-10,
+                        atol: 1e-10,
+                        ..SolverSettings::default()
+                    }),
                     ..RunOptions::default()
                 },
             )
@@ -217,7 +225,7 @@ fn rk4_exit_speed(s: &Scenario, t: &BrakeTables, case: usize, h: f64) -> f64 {
     let accel = |x: f64, v: f64| -> f64 {
         let brake: f64 = pairs
             .iter()
-            .map(|p| -p.force_per_m_n(v, c.fin_temp_c) * p.spec.overlap_m(x))
+            .map(|p| -p.force_per_m_n(v, c.fin_temp_c) * p.spec.overlap.length_m(x))
             .sum();
         // Gravity from the mean elevation under the vehicle by a central difference of the potential.
         let dz = 1e-6;

@@ -1,39 +1,143 @@
 //! The vehicle's motion through the zone: gravity and resistance (`track`), the brake pairs
-//! (`model`) and the integrator with event location (`integrate`). Physics never calls the
-//! integrator; the integrator never formats output.
+//! (`model`) and their overlap along the track (`overlap`), and the integrator with event
+//! location (`integrate`). Physics never calls the integrator; the integrator never formats
+//! output.
 
 pub mod integrate;
 pub mod model;
+pub mod overlap;
 pub mod track;
 
-pub use integrate::{simulate, simulate_case, RunOptions, Sampling};
+pub use integrate::{simulate_case, RunOptions, Sampling, SolverSettings, MAX_FINS};
 pub use model::BrakeTables;
+pub use overlap::Overlap;
 
+use crate::physics::PhysicsError;
+use crate::scenario::{Fin, Section};
 use serde::Serialize;
+use std::fmt;
 
 /// Errors of the dynamics layer.
 #[derive(Debug, Clone, thiserror::Error)]
 pub enum DynamicsError {
     /// A pair's force law could not be built.
-    #[error("fin '{fin}' in section '{section}': {message}")]
+    #[error("fin '{fin}' in section '{section}': {source}")]
     Physics {
         /// Fin name.
         fin: String,
         /// Section name.
         section: String,
-        /// Cause.
-        message: String,
+        /// What the physics layer rejected.
+        #[source]
+        source: PhysicsError,
+    },
+    /// A fin and a section are not mounted one on the vehicle and one on the track as the
+    /// scenario's arrangement says (validation normally rules this out).
+    #[error(
+        "fin '{fin}' in section '{section}': inconsistent mounting (one must be on the vehicle, \
+         the other on the track, as the arrangement says)"
+    )]
+    Mounting {
+        /// Fin name.
+        fin: String,
+        /// Section name.
+        section: String,
     },
     /// The integrator failed.
-    #[error("case '{case}': the integrator failed at t = {t_s:.6} s: {message}")]
+    #[error("case '{case}': the integrator failed at t = {t_s:.6} s: {cause}")]
     Integration {
         /// Case name.
         case: String,
         /// Time of failure, s.
         t_s: f64,
-        /// Cause.
-        message: String,
+        /// What went wrong.
+        cause: IntegrationCause,
     },
+}
+
+impl DynamicsError {
+    /// A physics error of the pair of `fin` and `section`.
+    pub fn physics(fin: &Fin, section: &Section, source: PhysicsError) -> Self {
+        DynamicsError::Physics {
+            fin: fin.name.clone(),
+            section: section.name.clone(),
+            source,
+        }
+    }
+}
+
+/// Why the integration of a case could not complete.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum IntegrationCause {
+    /// The adaptive step shrank to the rounding limit of the time (Dormand–Prince step-size
+    /// underflow): the right-hand side is not smooth enough or not finite.
+    #[error("step-size underflow")]
+    StepSizeUnderflow,
+    /// One piece between events needed more steps than the solver allows.
+    #[error("more than {steps} steps in one piece")]
+    StepLimit {
+        /// The step limit of the solver settings.
+        steps: u32,
+    },
+    /// The solver's stiffness test fired repeatedly.
+    #[error("the equations of motion became stiff")]
+    Stiff,
+    /// More pieces than the limit: events follow each other in a loop.
+    #[error("too many pieces (events in a loop): more than {pieces}")]
+    TooManyPieces {
+        /// The piece limit.
+        pieces: usize,
+    },
+    /// The state vector cannot hold this many fins.
+    #[error("{fins} fins: at most {max} are supported")]
+    TooManyFins {
+        /// Fins in the scenario.
+        fins: usize,
+        /// Most fins supported ([`MAX_FINS`]).
+        max: usize,
+    },
+    /// A quantity of the state or of its rate of change is NaN or infinite.
+    #[error("the {0} is not a finite number")]
+    NonFinite(Quantity),
+}
+
+/// A quantity the integrator carries: an entry of the state or of its rate of change.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Quantity {
+    /// Vehicle front position, m.
+    Position,
+    /// Speed along the track, m/s.
+    Speed,
+    /// Acceleration along the track, m/s².
+    Acceleration,
+    /// Energy dissipated by the brakes, J.
+    BrakingEnergy,
+    /// Brake power, W.
+    BrakingPower,
+    /// Work done against resistance, J.
+    ResistanceEnergy,
+    /// Power lost to resistance, W.
+    ResistancePower,
+    /// Energy dissipated in the named fin, J.
+    FinEnergy(String),
+    /// Power dissipated in the named fin, W.
+    FinPower(String),
+}
+
+impl fmt::Display for Quantity {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            Quantity::Position => write!(f, "position (m)"),
+            Quantity::Speed => write!(f, "speed (m/s)"),
+            Quantity::Acceleration => write!(f, "acceleration (m/s²)"),
+            Quantity::BrakingEnergy => write!(f, "braking energy (J)"),
+            Quantity::BrakingPower => write!(f, "braking power (W)"),
+            Quantity::ResistanceEnergy => write!(f, "resistance energy (J)"),
+            Quantity::ResistancePower => write!(f, "resistance power (W)"),
+            Quantity::FinEnergy(fin) => write!(f, "energy of fin '{fin}' (J)"),
+            Quantity::FinPower(fin) => write!(f, "power into fin '{fin}' (W)"),
+        }
+    }
 }
 
 /// How a run ended.

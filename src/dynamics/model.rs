@@ -5,10 +5,13 @@
 //! and rescaled exactly: the layer force depends on conductivity and speed only through σ·v, and
 //! on remanence as Br², so a fin at T sees f_ref(v·σ(T)/σ20)·(Br(T)/Br20)².
 
+use super::overlap::Overlap;
 use super::DynamicsError;
 use crate::constants::REFERENCE_TEMPERATURE_C;
 use crate::physics::{BrakeGeometry, DragModel, ForceTable, MeasuredCurve};
-use crate::scenario::{Arrangement, Case, Fin, ForceSource, Mount, Scenario, Section};
+use crate::scenario::{
+    Arrangement, Case, Fin, ForceSource, MagnetDesign, Mount, Scenario, Section,
+};
 use std::sync::Arc;
 
 /// How a pair's force per metre of overlap is obtained.
@@ -34,61 +37,17 @@ pub enum PairLaw {
     },
 }
 
-/// A fin × section pair: geometry along the track and the force law at 20 °C.
+/// A fin × section pair: where its elements sit along the track and the force law at 20 °C.
 #[derive(Debug, Clone)]
 pub struct PairSpec {
     /// Index into `Scenario::fins`.
     pub fin: usize,
     /// Index into `Scenario::sections`.
     pub section: usize,
-    /// Offset of the vehicle-mounted element behind the vehicle front, m.
-    pub vehicle_offset_m: f64,
-    /// Length of the vehicle-mounted element, m.
-    pub vehicle_len_m: f64,
-    /// Upstream end of the track-mounted element, m.
-    pub track_start_m: f64,
-    /// Length of the track-mounted element, m.
-    pub track_len_m: f64,
+    /// The two elements along the track (their overlap window as the vehicle moves).
+    pub overlap: Overlap,
     /// Force law.
     pub law: PairLaw,
-}
-
-impl PairSpec {
-    /// Overlap length for the vehicle front at `x`, m.
-    pub fn overlap_m(&self, x: f64) -> f64 {
-        let u = x - self.vehicle_offset_m;
-        let hi = u.min(self.track_start_m + self.track_len_m);
-        let lo = (u - self.vehicle_len_m).max(self.track_start_m);
-        (hi - lo).max(0.0)
-    }
-
-    /// Front positions where the overlap has a kink.
-    pub fn kinks(&self) -> [f64; 4] {
-        let o = self.vehicle_offset_m;
-        let (s0, s1, l) = (
-            self.track_start_m,
-            self.track_start_m + self.track_len_m,
-            self.vehicle_len_m,
-        );
-        [s0 + o, s1 + o, s0 + o + l, s1 + o + l]
-    }
-
-    /// The overlap as the linear law α + β·x that holds around `x_mid` (strictly between kinks).
-    pub fn linear_overlap(&self, x_mid: f64) -> (f64, f64) {
-        let u = x_mid - self.vehicle_offset_m;
-        let s1 = self.track_start_m + self.track_len_m;
-        let (hi, dhi) = if u < s1 { (u, 1.0) } else { (s1, 0.0) };
-        let (lo, dlo) = if u - self.vehicle_len_m > self.track_start_m {
-            (u - self.vehicle_len_m, 1.0)
-        } else {
-            (self.track_start_m, 0.0)
-        };
-        if hi - lo <= 0.0 {
-            return (0.0, 0.0);
-        }
-        let beta = dhi - dlo;
-        (hi - lo - beta * x_mid, beta)
-    }
 }
 
 /// Force tables of a scenario, built once and shared by its cases.
@@ -99,7 +58,7 @@ pub struct BrakeTables {
 }
 
 /// The brake geometry of a fin in a section's magnets.
-pub fn geometry(fin: &Fin, design: &crate::scenario::MagnetDesign) -> BrakeGeometry {
+pub fn geometry(fin: &Fin, design: &MagnetDesign) -> BrakeGeometry {
     BrakeGeometry {
         pole_pitch_m: design.pole_pitch_m,
         magnet_thickness_m: design.magnet_thickness_m,
@@ -111,22 +70,26 @@ pub fn geometry(fin: &Fin, design: &crate::scenario::MagnetDesign) -> BrakeGeome
     }
 }
 
-/// The layer model of a fin in a section (20 °C).
+/// The layer model of a fin in a section (20 °C); None for a section with a measured curve.
 pub fn drag_model(fin: &Fin, section: &Section) -> Result<Option<DragModel>, DynamicsError> {
-    let Some(design) = section.design() else {
-        return Ok(None);
-    };
+    section
+        .design()
+        .map(|design| model_in(fin, section, design))
+        .transpose()
+}
+
+/// The layer model of a fin in the magnets of `design` (20 °C).
+fn model_in(
+    fin: &Fin,
+    section: &Section,
+    design: &MagnetDesign,
+) -> Result<DragModel, DynamicsError> {
     DragModel::new(
         &geometry(fin, design),
         design.remanence_t,
         fin.material.conductivity_s_m,
     )
-    .map(Some)
-    .map_err(|e| DynamicsError::Physics {
-        fin: fin.name.clone(),
-        section: section.name.clone(),
-        message: e.to_string(),
-    })
+    .map_err(|source| DynamicsError::physics(fin, section, source))
 }
 
 /// A generous upper bound on the speeds any case of the scenario reaches, m/s.
@@ -243,83 +206,89 @@ impl BrakeTables {
                 if fin.lane != sec.lane {
                     continue;
                 }
-                let law = match &sec.force {
-                    ForceSource::Model(design) => {
-                        let g = geometry(fin, design);
-                        let key = design_key(&g, design.remanence_t, fin.material.conductivity_s_m);
-                        let (table, model) = match cache.find(&key, vmax) {
-                            Some(c) => (c.table, c.model),
-                            None => {
-                                let model = Arc::new(drag_model(fin, sec)?.ok_or_else(|| {
-                                    DynamicsError::Physics {
-                                        fin: fin.name.clone(),
-                                        section: sec.name.clone(),
-                                        message: "no design".into(),
-                                    }
-                                })?);
-                                let table = Arc::new(ForceTable::build(&model, vmax));
-                                cache.insert(CachedTable {
-                                    key,
-                                    max_speed_m_s: vmax,
-                                    table: table.clone(),
-                                    model: model.clone(),
-                                });
-                                (table, model)
-                            }
-                        };
-                        PairLaw::Table {
-                            active_height_m: model.geometry().active_height_m(),
-                            table,
-                            model,
-                        }
-                    }
-                    ForceSource::Measured(m) => {
-                        let curve =
-                            MeasuredCurve::new(&m.points).map_err(|e| DynamicsError::Physics {
-                                fin: fin.name.clone(),
-                                section: sec.name.clone(),
-                                message: e.to_string(),
-                            })?;
-                        PairLaw::Measured {
-                            curve: Arc::new(curve),
-                            fin_temp_c: m.fin_temp_c,
-                            magnet_temp_c: m.magnet_temp_c,
-                        }
-                    }
-                };
-                let (vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m) =
-                    match (scenario.arrangement, fin.mount, sec.mount) {
-                        (
-                            Arrangement::FinsOnVehicle,
-                            Mount::Vehicle { offset_m },
-                            Mount::Track { start_m },
-                        ) => (offset_m, fin.length_m, start_m, sec.length_m),
-                        (
-                            Arrangement::MagnetsOnVehicle,
-                            Mount::Track { start_m },
-                            Mount::Vehicle { offset_m },
-                        ) => (offset_m, sec.length_m, start_m, fin.length_m),
-                        _ => {
-                            return Err(DynamicsError::Physics {
-                                fin: fin.name.clone(),
-                                section: sec.name.clone(),
-                                message: "inconsistent mounting".into(),
-                            })
-                        }
-                    };
+                let law = pair_law(fin, sec, vmax, cache)?;
                 pairs.push(PairSpec {
                     fin: fi,
                     section: si,
-                    vehicle_offset_m,
-                    vehicle_len_m,
-                    track_start_m,
-                    track_len_m,
+                    overlap: placement(scenario.arrangement, fin, sec)?,
                     law,
                 });
             }
         }
         Ok(Self { pairs })
     }
+}
+
+/// The force law of a fin in a section: a table of the layer model reaching `vmax` (from
+/// `cache` when it holds one for this design), or the section's measured curve.
+fn pair_law(
+    fin: &Fin,
+    sec: &Section,
+    vmax: f64,
+    cache: &TableCache,
+) -> Result<PairLaw, DynamicsError> {
+    match &sec.force {
+        ForceSource::Model(design) => {
+            let g = geometry(fin, design);
+            let key = design_key(&g, design.remanence_t, fin.material.conductivity_s_m);
+            let (table, model) = match cache.find(&key, vmax) {
+                Some(c) => (c.table, c.model),
+                None => {
+                    let model = Arc::new(model_in(fin, sec, design)?);
+                    let table = Arc::new(ForceTable::build(&model, vmax));
+                    cache.insert(CachedTable {
+                        key,
+                        max_speed_m_s: vmax,
+                        table: table.clone(),
+                        model: model.clone(),
+                    });
+                    (table, model)
+                }
+            };
+            Ok(PairLaw::Table {
+                active_height_m: model.geometry().active_height_m(),
+                table,
+                model,
+            })
+        }
+        ForceSource::Measured(m) => {
+            let curve = MeasuredCurve::new(&m.points)
+                .map_err(|source| DynamicsError::physics(fin, sec, source))?;
+            Ok(PairLaw::Measured {
+                curve: Arc::new(curve),
+                fin_temp_c: m.fin_temp_c,
+                magnet_temp_c: m.magnet_temp_c,
+            })
+        }
+    }
+}
+
+/// Where the pair's vehicle and track elements sit: the fin rides on the vehicle and the section
+/// is on the track, or the other way round, as the arrangement says.
+fn placement(arrangement: Arrangement, fin: &Fin, sec: &Section) -> Result<Overlap, DynamicsError> {
+    let (vehicle_offset_m, vehicle_len_m, track_start_m, track_len_m) =
+        match (arrangement, fin.mount, sec.mount) {
+            (Arrangement::FinsOnVehicle, Mount::Vehicle { offset_m }, Mount::Track { start_m }) => {
+                (offset_m, fin.length_m, start_m, sec.length_m)
+            }
+            (
+                Arrangement::MagnetsOnVehicle,
+                Mount::Track { start_m },
+                Mount::Vehicle { offset_m },
+            ) => (offset_m, sec.length_m, start_m, fin.length_m),
+            _ => {
+                return Err(DynamicsError::Mounting {
+                    fin: fin.name.clone(),
+                    section: sec.name.clone(),
+                })
+            }
+        };
+    Ok(Overlap {
+        vehicle_offset_m,
+        vehicle_len_m,
+        track_start_m,
+        track_len_m,
+    })
 }
 
 /// A pair's force law at the case's magnet temperature; the fin temperature is applied per call.
@@ -415,56 +384,6 @@ pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> V
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    fn pair() -> PairSpec {
-        PairSpec {
-            fin: 0,
-            section: 0,
-            vehicle_offset_m: 1.0,
-            vehicle_len_m: 2.0,
-            track_start_m: 10.0,
-            track_len_m: 3.0,
-            law: PairLaw::Measured {
-                curve: Arc::new(MeasuredCurve::new(&[(0.0, 0.0), (10.0, 100.0)]).unwrap()),
-                fin_temp_c: 20.0,
-                magnet_temp_c: 20.0,
-            },
-        }
-    }
-
-    #[test]
-    fn overlap_trapezoid() {
-        let p = pair();
-        // Element [x-3, x-1] against [10, 13].
-        assert_eq!(p.overlap_m(11.0), 0.0);
-        assert_eq!(p.overlap_m(12.0), 1.0);
-        assert_eq!(p.overlap_m(13.0), 2.0);
-        assert_eq!(p.overlap_m(14.0), 2.0);
-        assert_eq!(p.overlap_m(15.0), 1.0);
-        assert_eq!(p.overlap_m(16.0), 0.0);
-        assert_eq!(p.kinks(), [11.0, 14.0, 13.0, 16.0]);
-        // ∫ overlap dx = fin length × section length (trapezoid area).
-        let n = 200_000;
-        let (a, b) = (10.0, 18.0);
-        let h = (b - a) / n as f64;
-        let area: f64 = (0..n)
-            .map(|i| p.overlap_m(a + (i as f64 + 0.5) * h) * h)
-            .sum();
-        assert!((area - 6.0).abs() < 1e-6, "{area}");
-    }
-
-    #[test]
-    fn linear_pieces_match() {
-        let p = pair();
-        for x in [11.5, 13.5, 15.0, 16.5, 20.0, 5.0] {
-            let (a, b) = p.linear_overlap(x);
-            assert!((a + b * x - p.overlap_m(x)).abs() < 1e-12, "x = {x}");
-            assert!(
-                (a + b * (x + 0.1) - p.overlap_m(x + 0.1)).abs() < 1e-12,
-                "x = {x}"
-            );
-        }
-    }
 
     #[test]
     fn remanence_ratio_linear() {

@@ -10,6 +10,7 @@
 //! zero). Beyond the last point the force is held at its last value.
 
 use super::{non_negative, PhysicsError};
+use crate::numeric::CubicHermite;
 
 /// Measured drag force per metre of overlap length against speed, interpolated monotonically.
 #[derive(Clone, Debug, PartialEq)]
@@ -76,13 +77,9 @@ impl MeasuredCurve {
         let (x0, x1) = (self.speeds_m_s[k], self.speeds_m_s[k + 1]);
         let (y0, y1) = (self.forces_per_m_n[k], self.forces_per_m_n[k + 1]);
         let h = x1 - x0;
-        let (m0, m1) = (self.slopes[k] * h, self.slopes[k + 1] * h);
+        let piece = CubicHermite::new(y0, y1, self.slopes[k] * h, self.slopes[k + 1] * h);
         let t = (x - x0) / h;
-        let c2 = 3.0 * (y1 - y0) - 2.0 * m0 - m1;
-        let c3 = 2.0 * (y0 - y1) + m0 + m1;
-        let value = y0 + t * (m0 + t * (c2 + t * c3));
-        let derivative = (m0 + t * (2.0 * c2 + 3.0 * t * c3)) / h;
-        (value, derivative)
+        (piece.value(t), piece.derivative(t) / h)
     }
 
     /// Drag force per metre of overlap in N/m at `speed_m_s` (m/s): odd in v, monotone cubic

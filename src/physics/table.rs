@@ -13,6 +13,7 @@
 //! f(v; σ', Br') = (Br'/Br)²·f(v·σ'/σ; σ, Br), exactly.
 
 use super::layer::DragModel;
+use crate::numeric::CubicHermite;
 
 /// Largest number of intervals (8 MiB of coefficients); beyond it the table range is shortened
 /// and the exact model is used above it.
@@ -27,8 +28,8 @@ pub struct ForceTable {
     model: DragModel,
     max_speed_m_s: f64,
     inverse_step_s_m: f64,
-    /// Per interval: c0 + c1 t + c2 t² + c3 t³ with t ∈ [0, 1) the position in the interval; Pa.
-    coefficients: Vec<[f64; 4]>,
+    /// Per interval: the cubic in t ∈ [0, 1), the position in the interval; Pa.
+    coefficients: Vec<CubicHermite>,
 }
 
 /// Slope df/dv of the model in Pa·s/m at `speed_m_s`, by the fourth-order central difference
@@ -86,7 +87,7 @@ impl ForceTable {
         intervals: usize,
         peak: f64,
         critical: f64,
-    ) -> Option<Vec<[f64; 4]>> {
+    ) -> Option<Vec<CubicHermite>> {
         let step = range / intervals as f64;
         let node = |i: usize| -> (f64, f64) {
             let v = i as f64 * step;
@@ -98,14 +99,9 @@ impl ForceTable {
         let (mut p0, mut m0) = node(0);
         for i in 0..intervals {
             let (p1, m1) = node(i + 1);
-            let c = [
-                p0,
-                m0,
-                3.0 * (p1 - p0) - 2.0 * m0 - m1,
-                2.0 * (p0 - p1) + m0 + m1,
-            ];
+            let c = CubicHermite::new(p0, p1, m0, m1);
             let mid = (i as f64 + 0.5) * step;
-            let interpolated = c[0] + 0.5 * (c[1] + 0.5 * (c[2] + 0.5 * c[3]));
+            let interpolated = c.value(0.5);
             let error = (interpolated - model.force_per_area_pa(mid)).abs();
             if error.is_nan() || error > BUILD_TOLERANCE * peak {
                 return None;
@@ -119,7 +115,7 @@ impl ForceTable {
 
     /// Interval index and position t ∈ [0, 1] for |v| = `speed_abs_m_s` inside the table range.
     #[inline(always)]
-    fn locate(&self, speed_abs_m_s: f64) -> Option<(&[f64; 4], f64)> {
+    fn locate(&self, speed_abs_m_s: f64) -> Option<(&CubicHermite, f64)> {
         if speed_abs_m_s < self.max_speed_m_s {
             let s = speed_abs_m_s * self.inverse_step_s_m;
             let i = s as usize; // s ≥ 0 and finite here; the cast truncates toward zero
@@ -137,7 +133,7 @@ impl ForceTable {
     pub fn force_per_area_pa(&self, speed_m_s: f64) -> f64 {
         match self.locate(speed_m_s.abs()) {
             Some((c, t)) => {
-                let f = c[0] + t * (c[1] + t * (c[2] + t * c[3]));
+                let f = c.value(t);
                 if speed_m_s < 0.0 {
                     -f
                 } else {
@@ -167,7 +163,7 @@ impl ForceTable {
     /// for the braking onset and Jacobian-free checks.
     pub fn slope_pa_s_m(&self, speed_m_s: f64) -> f64 {
         match self.locate(speed_m_s.abs()) {
-            Some((c, t)) => self.inverse_step_s_m * (c[1] + t * (2.0 * c[2] + 3.0 * t * c[3])),
+            Some((c, t)) => self.inverse_step_s_m * c.derivative(t),
             None => {
                 let h = 1e-3 * speed_m_s.abs().max(self.model.critical_speed_m_s());
                 model_slope(&self.model, speed_m_s, h)

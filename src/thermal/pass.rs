@@ -138,20 +138,6 @@ pub struct PassHeat {
     pub fins: Vec<FinPass>,
 }
 
-/// Overlap window [lo, hi] of a pair's track element for the vehicle front at x, m.
-fn window(pair: &ActivePair, x: f64) -> Option<(f64, f64)> {
-    let s = &pair.spec;
-    let u = x - s.vehicle_offset_m;
-    let hi = u.min(s.track_start_m + s.track_len_m);
-    let lo = (u - s.vehicle_len_m).max(s.track_start_m);
-    (hi > lo).then_some((lo, hi))
-}
-
-/// Overlap of a pair's window with the cell [c0, c1] for the front at x, m.
-fn cell_overlap(pair: &ActivePair, x: f64, c0: f64, c1: f64) -> f64 {
-    window(pair, x).map_or(0.0, |(lo, hi)| (hi.min(c1) - lo.max(c0)).max(0.0))
-}
-
 /// ∫ f(x)·overlap(x) |dx| over the front's move from `xa` to `xb` for cell [c0, c1], with f
 /// linear from `fa` to `fb` and the overlap integrated exactly between its breaks (the product of
 /// two linear functions is integrated exactly by Simpson's rule).
@@ -168,21 +154,11 @@ fn interval_cell_energy(
     if hi - lo <= 0.0 {
         return 0.0;
     }
-    let sp = &pair.spec;
-    let (o, l) = (sp.vehicle_offset_m, sp.vehicle_len_m);
-    let (s0, s1) = (sp.track_start_m, sp.track_start_m + sp.track_len_m);
-    // Front positions where a window edge (x − o − l or x − o) meets a cell or element edge.
+    let overlap = &pair.spec.overlap;
+    // Front positions where a window edge meets a cell or element edge.
+    let (cell, element) = (overlap.kinks_at(c0, c1), overlap.kinks());
     let mut breaks: [f64; 10] = [
-        lo,
-        hi,
-        c0 + o,
-        c1 + o,
-        s0 + o,
-        s1 + o,
-        c0 + o + l,
-        c1 + o + l,
-        s0 + o + l,
-        s1 + o + l,
+        lo, hi, cell[0], cell[1], element[0], element[1], cell[2], cell[3], element[2], element[3],
     ];
     for b in breaks.iter_mut().skip(2) {
         *b = b.clamp(lo, hi);
@@ -196,10 +172,36 @@ fn interval_cell_energy(
             continue;
         }
         let m = 0.5 * (p + q);
-        let g = |x: f64| f_at(x) * cell_overlap(pair, x, c0, c1);
+        let g = |x: f64| f_at(x) * overlap.length_within_m(x, c0, c1);
         total += (q - p) * (g(p) + 4.0 * g(m) + g(q)) / 6.0;
     }
     total
+}
+
+/// Energy per cell of a track fin over the run, unscaled: for every move between samples and
+/// every pair of the fin, the cells its overlap window sweeps get [`interval_cell_energy`] with
+/// the force per metre at their temperature in `law_field`.
+fn cell_energies(run: &RunResult, mine: &[&ActivePair], law_field: &TempField) -> Vec<f64> {
+    let mut energy = vec![0.0; law_field.temps_c.len()];
+    for w in run.samples.windows(2) {
+        let (a, b) = (&w[0], &w[1]);
+        if (b.s_m - a.s_m).abs() <= 0.0 {
+            continue;
+        }
+        for pair in mine {
+            // Cells the window touches during the move.
+            let Some((lo, hi)) = pair.spec.overlap.swept(a.s_m.min(b.s_m), a.s_m.max(b.s_m)) else {
+                continue;
+            };
+            for (k, c0, c1) in law_field.cells_touching(lo, hi) {
+                let t_k = law_field.temps_c[k];
+                let fa = pair.force_per_m_n(a.v_m_s, t_k).abs();
+                let fb = pair.force_per_m_n(b.v_m_s, t_k).abs();
+                energy[k] += interval_cell_energy(pair, c0, c1, a.s_m, b.s_m, fa, fb);
+            }
+        }
+    }
+    energy
 }
 
 /// Runs one pass of a case from the given fin states. With `coupling` the states set the fins'
@@ -279,39 +281,7 @@ pub fn run_pass(
                     }
                 };
                 let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
-                let cells = field.temps_c.len();
-                let mut energy = vec![0.0; cells];
-                for w in run.samples.windows(2) {
-                    let (a, b) = (&w[0], &w[1]);
-                    if (b.s_m - a.s_m).abs() <= 0.0 {
-                        continue;
-                    }
-                    for pair in &mine {
-                        // Cells the window touches during the move.
-                        let (xl, xh) = (a.s_m.min(b.s_m), a.s_m.max(b.s_m));
-                        let sp = &pair.spec;
-                        let lo =
-                            (xl - sp.vehicle_offset_m - sp.vehicle_len_m).max(sp.track_start_m);
-                        let hi = (xh - sp.vehicle_offset_m).min(sp.track_start_m + sp.track_len_m);
-                        if hi <= lo {
-                            continue;
-                        }
-                        let first = ((lo - law_field.start_m) / law_field.cell_m)
-                            .floor()
-                            .max(0.0) as usize;
-                        for (k, e) in energy.iter_mut().enumerate().skip(first) {
-                            let c0 = law_field.start_m + k as f64 * law_field.cell_m;
-                            if c0 >= hi {
-                                break;
-                            }
-                            let c1 = c0 + law_field.cell_m;
-                            let t_k = law_field.temps_c[k];
-                            let fa = pair.force_per_m_n(a.v_m_s, t_k).abs();
-                            let fb = pair.force_per_m_n(b.v_m_s, t_k).abs();
-                            *e += interval_cell_energy(pair, c0, c1, a.s_m, b.s_m, fa, fb);
-                        }
-                    }
-                }
+                let energy = cell_energies(&run, &mine, &law_field);
                 let sum: f64 = energy.iter().sum();
                 let (scale, correction) = if sum > 0.0 {
                     (energy_j / sum, (energy_j / sum - 1.0).abs())
@@ -390,7 +360,10 @@ mod tests {
                 .map(|i| {
                     let x = xa + (i as f64 + 0.5) * h;
                     let f = fa + (fb - fa) * (x - xa) / (xb - xa);
-                    mine.iter().map(|q| f * q.spec.overlap_m(x)).sum::<f64>() * h.abs()
+                    mine.iter()
+                        .map(|q| f * q.spec.overlap.length_m(x))
+                        .sum::<f64>()
+                        * h.abs()
                 })
                 .sum();
             assert!(

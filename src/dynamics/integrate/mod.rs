@@ -1,0 +1,125 @@
+//! Integration of one case, piece by piece between force kinks.
+//!
+//! The brake force has kinks wherever a fin edge meets a section edge, and gravity wherever the
+//! vehicle's front or rear crosses a profile point; resistance changes sign when the motion
+//! reverses. Within a piece every law is frozen on its current branch (overlaps are linear in the
+//! position, gravity is on fixed profile pieces, resistance has a fixed sign), so the right-hand
+//! side is smooth and the Dormand–Prince 5(4) method (Dormand & Prince, J. Comp. Appl. Math. 6,
+//! 1980; Hairer, Nørsett & Wanner, Solving Ordinary Differential Equations I, 1993; ode_solvers'
+//! `Dopri5`, chosen over `Dop853` because it provides the continuous output model) keeps its
+//! order. After each accepted step the event functions are checked; a sign change is located on
+//! the method's continuous output to 1e-9 s and the integration restarts from that state, so no step straddles a kink.
+//!
+//! State: [x, v, E_brake, E_resistance, E_fin_0, …]: the dissipated energies are integrated with
+//! the motion, so the energy residual measures the integration error.
+//!
+//! The steps, one module each: `context` (case setup: pairs, fin temperatures and capacities,
+//! the right-hand side), `pieces` (the piece between kinks and its frozen laws), `solver`
+//! (named solver settings and stepping one piece), `events` (event functions and their
+//! location), `sampling` (uniform and event samples, onset, peaks), `run` (what each event
+//! means for the outcome, and finishing the result).
+
+mod context;
+mod events;
+mod options;
+mod pieces;
+mod run;
+mod sampling;
+mod solver;
+
+pub use options::{RunOptions, Sampling, TempField};
+pub use solver::SolverSettings;
+
+use super::model::BrakeTables;
+use super::{DynamicsError, IntegrationCause, RunResult};
+use crate::scenario::{Case, Scenario};
+use context::CaseSetup;
+use ode_solvers::SVector;
+use run::{non_finite, Flow, RunState};
+use sampling::PieceSpan;
+
+/// Most fins a scenario may have (the state holds x, v, two energies and one energy per fin).
+pub const MAX_FINS: usize = 60;
+
+/// Runs one case. The state is a fixed-size vector (no allocation on the hot path), sized to the
+/// smallest of 8, 16, 32 or 64 entries that holds 4 + the number of fins.
+pub fn simulate_case(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    options: &RunOptions,
+) -> Result<RunResult, DynamicsError> {
+    match 4 + scenario.fins.len() {
+        n if n <= 8 => simulate_n::<8>(scenario, tables, case, options),
+        n if n <= 16 => simulate_n::<16>(scenario, tables, case, options),
+        n if n <= 32 => simulate_n::<32>(scenario, tables, case, options),
+        n if n <= 4 + MAX_FINS => simulate_n::<64>(scenario, tables, case, options),
+        _ => Err(DynamicsError::Integration {
+            case: case.name.clone(),
+            t_s: 0.0,
+            cause: IntegrationCause::TooManyFins {
+                fins: scenario.fins.len(),
+                max: MAX_FINS,
+            },
+        }),
+    }
+}
+
+/// The run of one case with a state of N entries: piece after piece until an event ends it.
+fn simulate_n<const N: usize>(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    options: &RunOptions,
+) -> Result<RunResult, DynamicsError> {
+    let setup = CaseSetup::new(scenario, tables, case, options);
+    let mut run = RunState::<N>::start(&setup);
+    if run.held_at_start(&setup) {
+        return Ok(run.finish(&setup));
+    }
+    loop {
+        let piece = run.begin_piece(&setup)?;
+        let mut dy = SVector::<f64, N>::zeros();
+        setup.ctx.eval(&piece.frozen, &run.y, Some(&mut dy));
+        let bad = non_finite(&setup, &run.y, false).or_else(|| non_finite(&setup, &dy, true));
+        if let Some(quantity) = bad {
+            return Err(run.failure(&setup, run.t, IntegrationCause::NonFinite(quantity)));
+        }
+        let end = solver::step_piece(
+            &setup.ctx,
+            &piece.frozen,
+            &piece.watch,
+            &setup.solver,
+            (run.t, run.y, dy),
+            piece.t_end,
+        )
+        .map_err(|(t_s, cause)| run.failure(&setup, t_s, cause))?;
+        if let Some(quantity) = non_finite(&setup, &end.y_stop, false) {
+            return Err(run.failure(&setup, end.t_stop, IntegrationCause::NonFinite(quantity)));
+        }
+        run.res.steps += end.steps;
+        run.res.rhs_evaluations += end.rhs_evaluations;
+        let in_zone = run.in_zone();
+        let keep = setup.sampling == Sampling::Full || in_zone;
+        let span = PieceSpan {
+            frozen: &piece.frozen,
+            trace: &end.trace,
+            t_start: run.t,
+            y_start: &run.y,
+            t_stop: end.t_stop,
+            y_stop: &end.y_stop,
+        };
+        run.sampler
+            .sample_piece(&setup.ctx, &span, in_zone, keep, &mut run.res);
+        run.warn_outside_measured(&setup, &piece.frozen, &end.y_stop);
+        run.t = end.t_stop;
+        run.y = end.y_stop;
+        if run.after_event(&setup, &piece.frozen, end.event) == Flow::Stop {
+            break;
+        }
+    }
+    Ok(run.finish(&setup))
+}
+
+#[cfg(test)]
+mod tests;

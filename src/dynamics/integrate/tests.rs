@@ -1,0 +1,119 @@
+//! Failures of a run carry a typed cause, and the solver settings default to the scenario's
+//! solver block.
+
+use super::*;
+use crate::dynamics::Quantity;
+use crate::physics::PhysicsError;
+use crate::scenario::{parse_str, Arrangement, ForceSource, MeasuredForce};
+
+/// A small brake run: one fin repeated `fins` times on the vehicle, three sections.
+fn scenario(fins: usize) -> Scenario {
+    let text = format!(
+        r#"name: errors
+start: {{ position: 5 m, speed: 12 m/s }}
+vehicle:
+  mass: 2000 kg
+  length: 200 m
+  fins:
+    - {{ name: fin, offset: 1 m, length: 1 m, height: 200 mm, thickness: 8 mm,
+        material: aluminium-6061-t6, repeat: {{ count: {fins}, pitch: 1.5 m }} }}
+sections:
+  - {{ name: S, start: 10 m, length: 1.5 m, pole_pitch: 50 mm, magnet_thickness: 12 mm,
+      magnet_fill: 0.9, remanence: 1.2 T, clearance: 5 mm, pole_height: 180 mm,
+      repeat: {{ count: 3, pitch: 2 m }} }}
+track: {{ grade: 0 % }}
+time_limit: 20 s
+"#
+    );
+    parse_str(&text, "<errors>", None).expect("valid scenario")
+}
+
+#[test]
+fn too_many_fins_is_a_typed_cause() {
+    let s = scenario(MAX_FINS + 1);
+    let tables = BrakeTables::build(&s).expect("tables");
+    let err = simulate_case(&s, &tables, &s.cases[0], &RunOptions::default())
+        .expect_err("more fins than the state holds");
+    assert!(matches!(
+        err,
+        DynamicsError::Integration {
+            cause: IntegrationCause::TooManyFins { fins: 61, max: 60 },
+            ..
+        }
+    ));
+    // The most fins the state holds still run.
+    let s = scenario(MAX_FINS);
+    let tables = BrakeTables::build(&s).expect("tables");
+    assert!(simulate_case(&s, &tables, &s.cases[0], &RunOptions::default()).is_ok());
+}
+
+#[test]
+fn a_non_finite_rate_names_the_quantity() {
+    let mut s = scenario(1);
+    s.cases[0].mass_kg = f64::NAN;
+    let tables = BrakeTables::build(&s).expect("tables");
+    let err = simulate_case(&s, &tables, &s.cases[0], &RunOptions::default())
+        .expect_err("a NaN mass cannot run");
+    let DynamicsError::Integration { case, t_s, cause } = &err else {
+        panic!("an integration error, got {err}")
+    };
+    assert_eq!((case, *t_s), (&s.cases[0].name, 0.0));
+    assert_eq!(cause, &IntegrationCause::NonFinite(Quantity::Acceleration));
+    assert!(err.to_string().contains("acceleration"), "{err}");
+}
+
+#[test]
+fn physics_errors_keep_their_source() {
+    let mut s = scenario(1);
+    s.sections[1].force = ForceSource::Measured(MeasuredForce {
+        points: vec![(1.0, -5.0)],
+        fin_temp_c: 20.0,
+        magnet_temp_c: 20.0,
+    });
+    let err = BrakeTables::build(&s).expect_err("a negative measured force");
+    let DynamicsError::Physics { fin, section, .. } = &err else {
+        panic!("a physics error, got {err}")
+    };
+    assert_eq!((fin.as_str(), section.as_str()), ("fin", "S-2"));
+    let source = std::error::Error::source(&err).expect("the physics error as source");
+    assert!(matches!(
+        source.downcast_ref::<PhysicsError>(),
+        Some(PhysicsError::Negative { .. })
+    ));
+}
+
+#[test]
+fn inconsistent_mounting_is_its_own_error() {
+    let mut s = scenario(1);
+    s.arrangement = Arrangement::MagnetsOnVehicle;
+    assert!(matches!(
+        BrakeTables::build(&s),
+        Err(DynamicsError::Mounting { .. })
+    ));
+}
+
+/// No solver settings in the options means the scenario's block: the same run, bit for bit;
+/// other tolerances change the step count.
+#[test]
+fn solver_settings_default_to_the_block() {
+    let s = scenario(2);
+    let tables = BrakeTables::build(&s).expect("tables");
+    let run = |solver| {
+        let options = RunOptions {
+            solver,
+            ..RunOptions::default()
+        };
+        simulate_case(&s, &tables, &s.cases[0], &options).expect("runs")
+    };
+    let by_default = run(None);
+    let from_block = run(Some(SolverSettings::from_block(&s.solver)));
+    assert_eq!(by_default.steps, from_block.steps);
+    assert_eq!(by_default.rhs_evaluations, from_block.rhs_evaluations);
+    assert_eq!(by_default.exit_speed_m_s, from_block.exit_speed_m_s);
+    let loose = run(Some(SolverSettings {
+        rtol: 1e-6,
+        atol: 1e-6,
+        ..SolverSettings::from_block(&s.solver)
+    }));
+    assert!(loose.steps < by_default.steps);
+}
