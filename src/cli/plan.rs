@@ -3,8 +3,9 @@
 
 use super::{emit, load, write_file};
 use crate::error::{Error, EXIT_LIMIT_FAILED, EXIT_OK};
-use crate::plan::{plan, yaml::scenario_yaml, PlanOptions, PlanResult};
+use crate::plan::{plan, PlanOptions, PlanResult};
 use crate::report::text::{num, Table};
+use crate::scenario::write::to_yaml;
 use clap::Args;
 use serde::Serialize;
 use std::path::PathBuf;
@@ -141,7 +142,8 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     };
     let r = plan(&s, &options).map_err(|e| Error::Compute(e.to_string()))?;
     if let (Some(path), true) = (&a.write, r.feasible) {
-        write_file(path, scenario_yaml(&r.scenario).as_bytes())?;
+        let yaml = to_yaml(&r.scenario).map_err(|e| Error::Compute(e.to_string()))?;
+        write_file(path, yaml.as_bytes())?;
     }
     if a.json {
         emit(
