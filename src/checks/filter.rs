@@ -18,11 +18,13 @@ use num_complex::Complex64;
 use std::f64::consts::PI;
 use thiserror::Error;
 
-/// Default number of poles for ride-acceleration filtering (common practice; from memory).
-pub const DEFAULT_ORDER: usize = 4;
+/// Default number of poles for ride-acceleration filtering: the scenario default
+/// [`crate::scenario::defaults::FILTER_ORDER`] (common practice; from memory).
+pub const DEFAULT_ORDER: usize = crate::scenario::defaults::FILTER_ORDER;
 
-/// Default corner frequency for ride-acceleration filtering, Hz (common practice; from memory).
-pub const DEFAULT_CORNER_HZ: f64 = 5.0;
+/// Default corner frequency for ride-acceleration filtering, Hz: the scenario default
+/// [`crate::scenario::defaults::FILTER_CORNER_HZ`] (common practice; from memory).
+pub const DEFAULT_CORNER_HZ: f64 = crate::scenario::defaults::FILTER_CORNER_HZ;
 
 /// Highest filter order accepted by [`Butterworth::lowpass`].
 pub const MAX_ORDER: usize = 8;

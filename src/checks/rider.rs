@@ -12,7 +12,7 @@
 use super::filter::{resample_uniform, Butterworth, SignalError, UniformSignal};
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::RunResult;
-use crate::scenario::{Axis, Rider};
+use crate::scenario::{defaults, Axis, Rider};
 use serde::Serialize;
 
 /// The felt acceleration of one run on the three rider axes, uniformly sampled, in g.
@@ -115,7 +115,9 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Result<RiderSignals, Rid
     if t.len() < 2 || t[t.len() - 1] <= t[0] {
         return Err(RiderSignalError::TooFewSamples);
     }
-    let rate = rider.filter.map(|f| f.sample_rate_hz).unwrap_or(1000.0);
+    let rate = rider
+        .filter
+        .map_or(defaults::FILTER_SAMPLE_RATE_HZ, |f| f.sample_rate_hz);
     let dt = 1.0 / rate;
     let along = resample_uniform(&t, &along, dt)?;
     let normal = resample_uniform(&t, &normal, dt)?;

@@ -38,6 +38,9 @@ pub enum OutputError {
     /// A JSON document could not be made.
     #[error("JSON output: {0}")]
     Json(#[from] serde_json::Error),
+    /// A scenario could not be written faithfully.
+    #[error("writing the scenario: {0}")]
+    Scenario(#[from] crate::scenario::write::WriteError),
     /// A file or folder could not be written.
     #[error("{}: {source}", path.display())]
     Write {
