@@ -2,6 +2,9 @@
 //! rollback signs, checks that cannot be evaluated. The real binary on variants of the shipped
 //! coaster demo written into a temporary folder.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use serde_json::Value;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};

@@ -3,6 +3,9 @@
 //! limit given yields a row in the verdict of every case (common practice for acceptance
 //! checks: each stated criterion is evaluated or reported as not evaluated).
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use eddyzone::scenario::parse_str;
 use eddyzone::study::{JudgeOptions, Silent, Study};
 use proptest::prelude::*;

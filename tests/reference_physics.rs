@@ -3,6 +3,9 @@
 //! finite-difference solution of the field problem across the whole gap. The source and the
 //! tolerance are written beside each check.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use eddyzone::constants::MU0_H_M;
 use eddyzone::physics::field::{no_load_gap_field_t, wavenumber_per_m};
 use eddyzone::physics::{

@@ -4,6 +4,9 @@
 //! cases and many units of each kind. The reference is the reader: the writer must be its inverse
 //! on the model, to the last bit of every number.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use eddyzone::plan::{candidate_scenario, section_out_bases, Layout};
 use eddyzone::scenario::raw::QuantityText;
 use eddyzone::scenario::write::{self, Spelling};

@@ -382,6 +382,22 @@ pub struct Butterworth {
     sections: Vec<Section>,
 }
 
+/// Checks a low-pass design's rates: the sample rate finite and positive, the corner finite,
+/// positive and below the Nyquist frequency `sample_rate_hz / 2`.
+pub(crate) fn check_corner(corner_hz: f64, sample_rate_hz: f64) -> Result<(), SignalError> {
+    if !(sample_rate_hz.is_finite() && sample_rate_hz > 0.0) {
+        return Err(SignalError::InvalidSampleRate { sample_rate_hz });
+    }
+    let nyquist_hz = 0.5 * sample_rate_hz;
+    if !(corner_hz.is_finite() && corner_hz > 0.0 && corner_hz < nyquist_hz) {
+        return Err(SignalError::InvalidCorner {
+            corner_hz,
+            nyquist_hz,
+        });
+    }
+    Ok(())
+}
+
 impl Butterworth {
     /// Designs an `order`-pole low-pass filter with its −3 dB corner at `corner_hz` for a signal
     /// sampled at `sample_rate_hz`.
@@ -395,16 +411,7 @@ impl Butterworth {
                 max: MAX_ORDER,
             });
         }
-        if !(sample_rate_hz.is_finite() && sample_rate_hz > 0.0) {
-            return Err(SignalError::InvalidSampleRate { sample_rate_hz });
-        }
-        let nyquist_hz = 0.5 * sample_rate_hz;
-        if !(corner_hz.is_finite() && corner_hz > 0.0 && corner_hz < nyquist_hz) {
-            return Err(SignalError::InvalidCorner {
-                corner_hz,
-                nyquist_hz,
-            });
-        }
+        check_corner(corner_hz, sample_rate_hz)?;
         let fs2 = 2.0 * sample_rate_hz;
         // Prewarped analogue corner, rad/s.
         let warped_rad_s = fs2 * (PI * corner_hz / sample_rate_hz).tan();
