@@ -251,3 +251,51 @@ fn a_check_without_a_value_fails_with_its_reason() {
     );
     assert!(text_out.contains("  slow: stall"), "{text_out}");
 }
+
+/// Input errors that would otherwise hollow out the verdict, each exit 2 with its field named:
+/// an acceleration limit without a unit (g or m/s²? the README says g, the model works in SI),
+/// a zone end upstream of every magnet, a start with the vehicle already over magnets.
+#[test]
+fn inputs_that_would_hollow_out_the_verdict_are_refused() {
+    let tmp = tempfile::tempdir().unwrap();
+    let cases = [
+        (
+            "bare.yaml",
+            coaster(|s| {
+                s.replace(
+                    "limits_file: ",
+                    "limits:\n  peak:\n    x: { min: -8 }\nlimits_file: ",
+                )
+            }),
+            vec!["limits.peak.x.min", "'-8 g'", "'-8 m/s^2'"],
+        ),
+        (
+            "zone-end.yaml",
+            coaster(|s| s.replace("limits_file: ", "zone_end: 10 m\nlimits_file: ")),
+            vec!["zone_end", "not downstream"],
+        ),
+        (
+            "inside.yaml",
+            coaster(|s| s.replace("  position: 15 m\n", "  position: 25 m\n")),
+            vec!["start.position", "already over section", "in_zone: true"],
+        ),
+    ];
+    for (name, text, words) in cases {
+        let p = write(tmp.path(), name, &text);
+        let o = run(&["check", &p], tmp.path());
+        let err = stderr(&o);
+        assert_eq!(o.status.code(), Some(2), "{name}: {err}");
+        assert!(
+            err.contains(&format!("{name}:")),
+            "{name}: file named: {err}"
+        );
+        for w in words {
+            assert!(err.contains(w), "{name}: no '{w}' in {err}");
+        }
+    }
+    // A vehicle held in the zone on purpose says so, and runs.
+    let held = coaster(|s| s.replace("  position: 15 m\n", "  position: 25 m\n  in_zone: true\n"));
+    let p = write(tmp.path(), "held.yaml", &held);
+    let o = run(&["run", &p], tmp.path());
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+}

@@ -116,12 +116,14 @@ vehicle:
   fins:
     - { name: fin, offset: 1 m, length: 2 m, height: 200 mm, thickness: 8 mm, material: copper-c11000 }
 sections:
-  - { name: S, start: 900 m, length: 1.5 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9,
+  - { name: S, start: 100 m, length: 1.5 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9,
       remanence: 1.2 T, clearance: 5 mm, pole_height: 180 mm }
 resistance: { drag_area: 2.0 m^2 }
 track: { air_density: 1.2 kg/m^3 }
 start: { position: 0 m, speed: 30 m/s }
 zone_end: 200 m
+cases:
+  - { name: out-of-service, disabled: [S] }   # the section is out: drag alone
 "#;
     let s = scenario(text);
     let t = BrakeTables::build(&s).unwrap();

@@ -127,6 +127,7 @@ mod tests {
             mass_kg: 1000.0,
             start_position_m: 0.0,
             start_speed_m_s: 10.0,
+            start_in_zone: false,
             fin_temp_c: 20.0,
             magnet_temp_c: 20.0,
             disabled: vec![],

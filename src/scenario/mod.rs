@@ -361,6 +361,9 @@ pub struct Case {
     pub start_position_m: f64,
     /// m/s along the track.
     pub start_speed_m_s: f64,
+    /// The vehicle may start with fins already over magnets (`start: { in_zone: true }`);
+    /// otherwise such a start is an input error.
+    pub start_in_zone: bool,
     /// Fin temperature before the pass, °C.
     pub fin_temp_c: f64,
     /// Magnet temperature, °C.

@@ -330,6 +330,9 @@ pub struct RawStart {
     /// Speed along the track (negative runs backwards).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub speed: Option<Q>,
+    /// The vehicle may start with fins already over magnets (e.g. held in a rollback zone).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub in_zone: Option<bool>,
 }
 
 /// Temperatures.

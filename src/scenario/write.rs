@@ -396,6 +396,7 @@ impl Writer<'_> {
         RawStart {
             position: Some(self.q(&format!("{p}.position"), Kind::Length, c.start_position_m)),
             speed: Some(self.q(&format!("{p}.speed"), Kind::Speed, c.start_speed_m_s)),
+            in_zone: c.start_in_zone.then_some(true),
         }
     }
 

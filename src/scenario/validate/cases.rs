@@ -184,6 +184,11 @@ impl Validator {
                     mass_kg,
                     start_position_m,
                     start_speed_m_s,
+                    start_in_zone: c
+                        .start
+                        .as_ref()
+                        .and_then(|s| s.in_zone)
+                        .unwrap_or(nominal.start_in_zone),
                     fin_temp_c,
                     magnet_temp_c,
                     disabled,
@@ -328,5 +333,81 @@ impl Validator {
             names.push(&c.name);
         }
         out
+    }
+
+    /// A listed case (or the nominal start when no case is listed) must not start with a fin
+    /// already over magnets, unless its start says `in_zone: true`: a vehicle placed inside the
+    /// zone by mistake would skip the entry the checks judge.
+    pub(super) fn starts_outside_zone(
+        &mut self,
+        raw: &crate::scenario::raw::RawScenario,
+        nominal: &Case,
+        cases: &[Case],
+        fins: &[crate::scenario::Fin],
+        sections: &[Section],
+    ) {
+        let over = |c: &Case| -> Option<(String, String)> {
+            let x = c.start_position_m;
+            let span = |m: crate::scenario::Mount, len: f64| match m {
+                crate::scenario::Mount::Vehicle { offset_m } => (x - offset_m - len, x - offset_m),
+                crate::scenario::Mount::Track { start_m } => (start_m, start_m + len),
+            };
+            fins.iter().find_map(|f| {
+                let (a0, a1) = span(f.mount, f.length_m);
+                sections
+                    .iter()
+                    .enumerate()
+                    .filter(|(k, s)| s.lane == f.lane && !c.disabled.contains(k))
+                    .find(|(_, s)| {
+                        let (b0, b1) = span(s.mount, s.length_m);
+                        a1.min(b1) - a0.max(b0) > 0.0
+                    })
+                    .map(|(_, s)| (f.name.clone(), s.name.clone()))
+            })
+        };
+        let message = |c: &Case, fin: &str, sec: &str| {
+            format!(
+                "the vehicle starts with fin '{fin}' already over section '{sec}' (front at {} m): \
+                 start it upstream of the zone, or give `in_zone: true` in this start block for a \
+                 vehicle held inside the zone",
+                c.start_position_m
+            )
+        };
+        let nominal_near = raw
+            .start
+            .as_ref()
+            .and_then(|s| s.position.as_ref())
+            .and_then(|q| loc(&q.referenced));
+        let mut nominal_reported = false;
+        let listed: Vec<(usize, &RawCase)> = raw.cases.iter().flatten().enumerate().collect();
+        if listed.is_empty() {
+            if let (false, Some((f, s))) = (nominal.start_in_zone, over(nominal)) {
+                self.push(nominal_near, "start.position", message(nominal, &f, &s));
+            }
+        }
+        for (i, rc) in listed {
+            let Some(c) = cases
+                .iter()
+                .find(|c| c.name == rc.name.value && c.origin == CaseOrigin::Listed)
+            else {
+                continue;
+            };
+            let Some((f, s)) = over(c).filter(|_| !c.start_in_zone) else {
+                continue;
+            };
+            match rc.start.as_ref().and_then(|s| s.position.as_ref()) {
+                Some(q) => self.push(
+                    loc(&q.referenced),
+                    &format!("cases[{i}].start.position"),
+                    message(c, &f, &s),
+                ),
+                // The case takes the scenario's start: say it once, where it is written.
+                None if !nominal_reported => {
+                    nominal_reported = true;
+                    self.push(nominal_near, "start.position", message(c, &f, &s));
+                }
+                None => {}
+            }
+        }
     }
 }

@@ -532,6 +532,7 @@ impl Validator {
             mass_kg,
             start_position_m: start_position_m?,
             start_speed_m_s: start_speed_m_s?,
+            start_in_zone: raw.start.as_ref().and_then(|s| s.in_zone).unwrap_or(false),
             fin_temp_c: fin_temp_c?,
             magnet_temp_c: magnet_temp_c?,
             disabled: vec![],
@@ -545,6 +546,19 @@ impl Validator {
         if !zone_start_m.is_finite() || !zone_end_m.is_finite() {
             return None;
         }
+        if let Some(q) = &raw.zone_end {
+            if zone_end_m <= zone_start_m {
+                self.at(
+                    &q.referenced,
+                    "zone_end",
+                    format!(
+                        "{zone_end_m} m is not downstream of the zone's first magnet or fin at \
+                         {zone_start_m} m: every check would see an empty zone"
+                    ),
+                );
+            }
+        }
+        self.starts_outside_zone(raw, &nominal, &cases, &fins, &sections);
         if let Some(g) = &raw.generate {
             let generated =
                 self.generate(g, &cases, &nominal, &sections, zone_end_m, vehicle.length_m);
