@@ -299,3 +299,34 @@ fn inputs_that_would_hollow_out_the_verdict_are_refused() {
     let o = run(&["run", &p], tmp.path());
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
 }
+
+/// The report's verdict names the failing cases and their checks, with the state and the
+/// duration at which an envelope binds (the tower demo fails its empty cases on the envelope).
+#[test]
+fn the_report_verdict_names_failing_cases_and_checks() {
+    let tmp = tempfile::tempdir().unwrap();
+    let sc = root().join("scenarios/tower-catch-brake.yaml");
+    let out = tmp.path().join("report");
+    let o = run(
+        &[
+            "report",
+            sc.to_str().unwrap(),
+            "--out",
+            out.to_str().unwrap(),
+        ],
+        tmp.path(),
+    );
+    assert!(o.status.success(), "{}", stderr(&o));
+    let html = std::fs::read_to_string(out.join("report.html")).unwrap();
+    let i = html
+        .find("<ul id=\"failures\">")
+        .expect("a list of failures");
+    let list = &html[i..i + html[i..].find("</ul>").unwrap()];
+    assert!(
+        list.contains("<b>empty</b>: envelope_positive.z (margin"),
+        "{list}"
+    );
+    assert!(html.contains("<th>binds at (s)</th>"));
+    assert!(html.contains("<td>steady</td>"), "states shown");
+    assert!(html.contains("braking while descending is +z"));
+}

@@ -117,6 +117,16 @@ impl Verdict {
 }
 
 impl CheckRow {
+    /// The row in a few words for a list of failures: "peak_min.x (margin -0.120 g)" or
+    /// "exit_speed_min (not evaluated: stalled in the zone)".
+    pub fn summary(&self) -> String {
+        match (self.margin, &self.not_evaluated) {
+            (Some(m), _) => format!("{} (margin {m:.3} {})", self.key(), self.unit),
+            (None, Some(n)) => format!("{} (not evaluated: {n})", self.key()),
+            (None, None) => self.key(),
+        }
+    }
+
     /// Check name with its axis ("peak_min.x"), the key rows are matched by.
     pub fn key(&self) -> String {
         match &self.axis {
