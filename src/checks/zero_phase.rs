@@ -262,15 +262,8 @@ fn pass_design_hz(m: usize, corner_hz: f64, sample_rate_hz: f64) -> f64 {
 }
 
 /// Whether ride accelerations are filtered without phase shift (the default) or in one causal
-/// pass (as an on-board logger would).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum Phase {
-    /// Forward and backward ([`ZeroPhaseButterworth`]); the order counts both passes.
-    #[default]
-    Zero,
-    /// One causal pass ([`Butterworth::filter`]); the order is the pass's.
-    Causal,
-}
+/// pass: the scenario's `rider.filter.phase`.
+pub use crate::scenario::FilterPhase as Phase;
 
 /// A ride-acceleration filter of either [`Phase`], designed from the same three numbers.
 #[derive(Debug, Clone, PartialEq)]

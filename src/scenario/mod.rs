@@ -424,6 +424,48 @@ pub struct FilterSettings {
     pub order: usize,
     /// Resampling rate, Hz (default [`defaults::FILTER_SAMPLE_RATE_HZ`]).
     pub sample_rate_hz: f64,
+    /// Forward and backward (zero phase, the default) or one causal pass.
+    pub phase: FilterPhase,
+}
+
+/// How the rider-acceleration filter runs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum FilterPhase {
+    /// Forward and backward: no phase shift; `order` counts the poles of both passes.
+    #[default]
+    Zero,
+    /// One causal pass, as an on-board logger filters.
+    Causal,
+}
+
+/// Which signal onset and release are measured on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum RateSignal {
+    /// The filtered felt acceleration (the default).
+    #[default]
+    Filtered,
+    /// The unfiltered felt acceleration.
+    Raw,
+}
+
+/// How onset and release are measured.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RateSettings {
+    /// Central-difference window, s (default [`defaults::RATE_WINDOW_S`]).
+    pub window_s: f64,
+    /// The signal differentiated.
+    pub signal: RateSignal,
+}
+
+impl Default for RateSettings {
+    fn default() -> Self {
+        Self {
+            window_s: defaults::RATE_WINDOW_S,
+            signal: RateSignal::Filtered,
+        }
+    }
 }
 
 impl Default for FilterSettings {
@@ -432,6 +474,7 @@ impl Default for FilterSettings {
             corner_hz: defaults::FILTER_CORNER_HZ,
             order: defaults::FILTER_ORDER,
             sample_rate_hz: defaults::FILTER_SAMPLE_RATE_HZ,
+            phase: FilterPhase::Zero,
         }
     }
 }
@@ -443,6 +486,8 @@ pub struct Rider {
     pub track_axis: Axis,
     /// `None` when filtering is switched off.
     pub filter: Option<FilterSettings>,
+    /// How onset and release are measured.
+    pub rates: RateSettings,
 }
 
 /// Peak limits of one axis, g.
@@ -478,8 +523,12 @@ pub struct Limits {
     pub peak: [PeakLimit; 3],
     /// Envelopes per axis (x, y, z).
     pub envelope: [EnvelopeLimit; 3],
-    /// Largest onset, g/s.
+    /// Largest onset (rate of rise of braking), g/s.
     pub onset_g_s: Option<f64>,
+    /// Largest release (rate at which braking falls away), g/s.
+    pub release_g_s: Option<f64>,
+    /// Combined-axis limits.
+    pub combined: Vec<CombinedLimit>,
     /// Lowest exit speed, m/s.
     pub exit_speed_min_m_s: Option<f64>,
     /// Highest exit speed, m/s.
@@ -494,6 +543,18 @@ pub struct Limits {
     pub max_fin_temperature_c: Option<f64>,
     /// Highest magnet temperature, °C.
     pub max_magnet_temperature_c: Option<f64>,
+}
+
+/// Two rider axes judged together: at every sample (a₁/s₁)² + (a₂/s₂)² ≤ 1, with each semi-axis
+/// s taken on the side (positive or negative) the acceleration is on — a quarter-ellipse per
+/// quadrant (the form of combined-acceleration criteria in ride standards, e.g. ASTM F2291; from
+/// memory, verify).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct CombinedLimit {
+    /// The two axes, in x, y, z order.
+    pub axes: [Axis; 2],
+    /// Per axis: [negative-side magnitude, positive-side level], g (both > 0).
+    pub semi_g: [[f64; 2]; 2],
 }
 
 /// Number of dispatches to simulate.

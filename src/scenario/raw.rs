@@ -397,6 +397,31 @@ pub struct RawRider {
     /// Low-pass filter for limit evaluation.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub filter: Option<RawFilter>,
+    /// How onset and release are measured.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rates: Option<RawRates>,
+}
+
+/// How onset and release are measured.
+#[derive(Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawRates {
+    /// Central-difference window.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub window: Option<Q>,
+    /// `filtered` (the default) or `raw`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub signal: Option<Spanned<String>>,
+}
+
+/// The two semi-axes of one rider axis in a combined-axis limit.
+#[derive(Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawSides {
+    /// Allowed level on the positive side.
+    pub positive: Q,
+    /// Allowed magnitude on the negative side.
+    pub negative: Q,
 }
 
 /// Low-pass filter settings.
@@ -415,6 +440,9 @@ pub struct RawFilter {
     /// Resampling rate in Hz.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sample_rate_hz: Option<Spanned<f64>>,
+    /// `zero` (forward and backward, the default) or `causal` (one pass).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub phase: Option<Spanned<String>>,
 }
 
 /// A peak limit per sign.
@@ -484,6 +512,12 @@ pub struct RawLimits {
     /// Largest rate of change of braking deceleration.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub onset: Option<Q>,
+    /// Largest rate at which braking deceleration falls away.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub release: Option<Q>,
+    /// Combined-axis limits: two rider axes judged together on a quarter-ellipse boundary.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub combined: Option<Vec<RawAxes<RawSides>>>,
     /// Exit-speed window.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub exit_speed: Option<RawWindow>,

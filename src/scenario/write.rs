@@ -196,7 +196,7 @@ impl Writer<'_> {
                 rtol: Some(spanned(s.solver.rtol)),
                 atol: Some(spanned(s.solver.atol)),
             }),
-            rider: Some(rider(&s.rider)),
+            rider: Some(self.rider(&s.rider)),
             limits_file: None,
             limits: Some(self.limits(&s.limits)),
             generate: self.generate(s),
@@ -501,6 +501,45 @@ impl Writer<'_> {
         }
     }
 
+    fn rider(&self, r: &Rider) -> RawRider {
+        let filter = match r.filter {
+            None => RawFilter {
+                enabled: Some(false),
+                corner_hz: None,
+                order: None,
+                sample_rate_hz: None,
+                phase: None,
+            },
+            Some(f) => RawFilter {
+                enabled: None,
+                corner_hz: Some(spanned(f.corner_hz)),
+                order: Some(spanned(u32::try_from(f.order).unwrap_or(u32::MAX))),
+                sample_rate_hz: Some(spanned(f.sample_rate_hz)),
+                phase: Some(spanned(
+                    match f.phase {
+                        FilterPhase::Zero => "zero",
+                        FilterPhase::Causal => "causal",
+                    }
+                    .to_string(),
+                )),
+            },
+        };
+        RawRider {
+            track_axis: spanned(r.track_axis.name().to_string()),
+            filter: Some(filter),
+            rates: Some(RawRates {
+                window: Some(self.q("rider.rates.window", Kind::Time, r.rates.window_s)),
+                signal: Some(spanned(
+                    match r.rates.signal {
+                        RateSignal::Filtered => "filtered",
+                        RateSignal::Raw => "raw",
+                    }
+                    .to_string(),
+                )),
+            }),
+        }
+    }
+
     fn limits(&self, l: &Limits) -> RawLimits {
         const AXES: [&str; 3] = ["x", "y", "z"];
         let peak = axes(std::array::from_fn(|k| {
@@ -545,6 +584,35 @@ impl Writer<'_> {
             peak,
             envelope,
             onset: l.onset_g_s.map(|g| self.q_g("limits.onset", Kind::Jerk, g)),
+            release: l
+                .release_g_s
+                .map(|g| self.q_g("limits.release", Kind::Jerk, g)),
+            combined: (!l.combined.is_empty()).then(|| {
+                l.combined
+                    .iter()
+                    .enumerate()
+                    .map(|(i, c)| {
+                        let mut sides: [Option<RawSides>; 3] = [None, None, None];
+                        for (k, a) in c.axes.iter().enumerate() {
+                            let p = format!("limits.combined[{i}].{}", a.name());
+                            sides[*a as usize] = Some(RawSides {
+                                negative: self.q_g(
+                                    &format!("{p}.negative"),
+                                    Kind::Acceleration,
+                                    c.semi_g[k][0],
+                                ),
+                                positive: self.q_g(
+                                    &format!("{p}.positive"),
+                                    Kind::Acceleration,
+                                    c.semi_g[k][1],
+                                ),
+                            });
+                        }
+                        let [x, y, z] = sides;
+                        RawAxes { x, y, z }
+                    })
+                    .collect()
+            }),
             exit_speed: (l.exit_speed_min_m_s.is_some() || l.exit_speed_max_m_s.is_some()).then(
                 || RawWindow {
                     min: exit("min", l.exit_speed_min_m_s),
@@ -628,25 +696,4 @@ fn axes<T>(items: [Option<T>; 3]) -> Option<RawAxes<T>> {
     let [x, y, z] = items;
     let any = x.is_some() || y.is_some() || z.is_some();
     any.then_some(RawAxes { x, y, z })
-}
-
-fn rider(r: &Rider) -> RawRider {
-    let filter = match r.filter {
-        None => RawFilter {
-            enabled: Some(false),
-            corner_hz: None,
-            order: None,
-            sample_rate_hz: None,
-        },
-        Some(f) => RawFilter {
-            enabled: None,
-            corner_hz: Some(spanned(f.corner_hz)),
-            order: Some(spanned(u32::try_from(f.order).unwrap_or(u32::MAX))),
-            sample_rate_hz: Some(spanned(f.sample_rate_hz)),
-        },
-    };
-    RawRider {
-        track_axis: spanned(r.track_axis.name().to_string()),
-        filter: Some(filter),
-    }
 }

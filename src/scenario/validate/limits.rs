@@ -3,8 +3,8 @@
 //! temperatures. Accelerations are kept in g ([`in_g`]).
 
 use super::{loc, Coord, PointList, Validator};
-use crate::scenario::raw::{RawLimits, Q};
-use crate::scenario::{in_g, Limits};
+use crate::scenario::raw::{RawAxes, RawLimits, RawSides, Q};
+use crate::scenario::{in_g, Axis, CombinedLimit, Limits};
 use crate::units::Kind;
 
 impl Validator {
@@ -93,6 +93,20 @@ impl Validator {
                 out.onset_g_s = Some(in_g(x));
             }
         }
+        if let Some(q) = &r.release {
+            if let Some(x) = self.positive(q, Kind::Jerk, "limits.release") {
+                out.release_g_s = Some(in_g(x));
+            }
+        }
+        if let Some(list) = &r.combined {
+            out.combined.clear();
+            for (i, c) in list.iter().enumerate() {
+                let p = format!("limits.combined[{i}]");
+                if let Some(l) = self.combined(c, &p) {
+                    out.combined.push(l);
+                }
+            }
+        }
         if let Some(w) = &r.exit_speed {
             if let Some(q) = &w.min {
                 out.exit_speed_min_m_s = self.non_negative(q, Kind::Speed, "limits.exit_speed.min");
@@ -127,5 +141,44 @@ impl Validator {
             out.max_magnet_temperature_c =
                 self.temperature(&Some(q.clone()), "limits.max_magnet_temperature", 0.0);
         }
+    }
+
+    /// One combined-axis limit: exactly two axes, each with both semi-axes positive.
+    fn combined(&mut self, c: &RawAxes<RawSides>, p: &str) -> Option<CombinedLimit> {
+        let given: Vec<(Axis, &RawSides)> = [(Axis::X, &c.x), (Axis::Y, &c.y), (Axis::Z, &c.z)]
+            .into_iter()
+            .filter_map(|(a, s)| s.as_ref().map(|s| (a, s)))
+            .collect();
+        let [(a1, s1), (a2, s2)] = given[..] else {
+            let near = given.first().and_then(|(_, s)| loc(&s.positive.referenced));
+            self.push(
+                near,
+                p,
+                format!(
+                    "a combined limit names exactly two axes, each with its positive and \
+                     negative semi-axis (e.g. {{ x: {{ positive: 2 g, negative: 1.5 g }}, z: \
+                     {{ positive: 6 g, negative: 2 g }} }}); {} given",
+                    given.len()
+                ),
+            );
+            return None;
+        };
+        let mut semi = [[0.0; 2]; 2];
+        let mut ok = true;
+        for (k, (a, s)) in [(a1, s1), (a2, s2)].into_iter().enumerate() {
+            for (j, (side, q)) in [("negative", &s.negative), ("positive", &s.positive)]
+                .into_iter()
+                .enumerate()
+            {
+                match self.positive(q, Kind::Acceleration, &format!("{p}.{}.{side}", a.name())) {
+                    Some(x) => semi[k][j] = in_g(x),
+                    None => ok = false,
+                }
+            }
+        }
+        ok.then_some(CombinedLimit {
+            axes: [a1, a2],
+            semi_g: semi,
+        })
     }
 }

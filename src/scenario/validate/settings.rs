@@ -1,8 +1,12 @@
 //! Run settings: the integrator tolerances and the rider (axis along the track, low-pass filter).
 
 use super::Validator;
-use crate::scenario::raw::{RawRider, RawSolver};
-use crate::scenario::{defaults, Axis, FilterSettings, Gravity, Rider, Solver, Track};
+use crate::scenario::raw::{RawRates, RawRider, RawSolver};
+use crate::scenario::{
+    defaults, Axis, FilterPhase, FilterSettings, Gravity, RateSettings, RateSignal, Rider, Solver,
+    Track,
+};
+use crate::units::Kind;
 
 impl Validator {
     pub(super) fn solver(&mut self, s: Option<&RawSolver>) -> Option<Solver> {
@@ -34,6 +38,7 @@ impl Validator {
             return Some(Rider {
                 track_axis: if steep { Axis::Z } else { Axis::X },
                 filter: Some(default_filter),
+                rates: RateSettings::default(),
             });
         };
         let track_axis = match r.track_axis.value.as_str() {
@@ -64,9 +69,38 @@ impl Validator {
                     }
                     fs.corner_hz = c.value;
                 }
+                if let Some(ph) = &f.phase {
+                    fs.phase = match ph.value.as_str() {
+                        "zero" => FilterPhase::Zero,
+                        "causal" => FilterPhase::Causal,
+                        other => {
+                            self.at(
+                                &ph.referenced,
+                                "rider.filter.phase",
+                                format!(
+                                    "unknown phase '{other}' (zero: forward and backward, no \
+                                     phase shift; causal: one pass)"
+                                ),
+                            );
+                            return None;
+                        }
+                    };
+                }
                 if let Some(o) = &f.order {
-                    if !(1..=8).contains(&o.value) {
-                        self.at(&o.referenced, "rider.filter.order", "must be 1 to 8");
+                    let ok = match fs.phase {
+                        FilterPhase::Causal => (1..=8).contains(&o.value),
+                        FilterPhase::Zero => (2..=16).contains(&o.value) && o.value % 2 == 0,
+                    };
+                    if !ok {
+                        let msg = match fs.phase {
+                            FilterPhase::Causal => "must be 1 to 8 (one causal pass)",
+                            FilterPhase::Zero => {
+                                "must be even, 2 to 16: a zero-phase filter of order n is a \
+                                 pass of order n/2 run forward and backward (use phase: causal \
+                                 for an odd order)"
+                            }
+                        };
+                        self.at(&o.referenced, "rider.filter.order", msg);
                         return None;
                     }
                     fs.order = o.value as usize;
@@ -93,6 +127,34 @@ impl Validator {
                 Some(fs)
             }
         };
-        Some(Rider { track_axis, filter })
+        let rates = self.rates(r.rates.as_ref())?;
+        Some(Rider {
+            track_axis,
+            filter,
+            rates,
+        })
+    }
+
+    fn rates(&mut self, r: Option<&RawRates>) -> Option<RateSettings> {
+        let mut out = RateSettings::default();
+        let Some(r) = r else { return Some(out) };
+        if let Some(q) = &r.window {
+            out.window_s = self.positive(q, Kind::Time, "rider.rates.window")?;
+        }
+        if let Some(sig) = &r.signal {
+            out.signal = match sig.value.as_str() {
+                "filtered" => RateSignal::Filtered,
+                "raw" => RateSignal::Raw,
+                other => {
+                    self.at(
+                        &sig.referenced,
+                        "rider.rates.signal",
+                        format!("unknown signal '{other}' (filtered or raw)"),
+                    );
+                    return None;
+                }
+            };
+        }
+        Some(out)
     }
 }
