@@ -99,12 +99,15 @@ generate:
   corners: { mass: [1.8 t, 2.6 t], magnet_temp: [5 °C, 45 °C] }
   each_section_out_of: [full, empty/hot-magnet]
   rollback: { speed: 7 km/h }
-rider: { track_axis: x, filter: { corner_hz: 6.5, order: 3, sample_rate_hz: 1200 } }
+rider: { track_axis: x, filter: { corner_hz: 6.5, order: 3, sample_rate_hz: 1200, phase: causal }, rates: { window: 20 ms, signal: raw } }
 limits:
   source: invented
   peak: { x: { min: -1.7 g, max: 0.9 g }, z: { max: 2.1 g } }
   envelope: { x: { negative: [[0 s, 1.7 g], [0.7 s, 1.7 g], [0.7 s, 13 m/s^2], [9 s, 1.3 g]] } }
   onset: 17 g/s
+  release: 12 g/s
+  combined:
+    - { x: { positive: 2 g, negative: 1.5 g }, z: { positive: 3 g, negative: 0.4 g } }
   exit_speed: { min: 3 m/s, max: 9 m/s }
   max_duration: 0.2 min
   allow_rollback: true
@@ -585,7 +588,7 @@ impl Draw {
             1 => t += "rider: { track_axis: z, filter: { enabled: false } }\n",
             _ => {
                 t += &format!(
-                    "rider: {{ track_axis: x, filter: {{ corner_hz: {}, order: {}, sample_rate_hz: {} }} }}\n",
+                    "rider: {{ track_axis: x, filter: {{ corner_hz: {}, order: {}, sample_rate_hz: {}, phase: causal }} }}\n",
                     self.x(1.0, 20.0),
                     1 + self.pick(8),
                     self.x(500.0, 2000.0)

@@ -235,6 +235,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_min_g + 1.0).abs() < 1e-12);
@@ -245,7 +246,9 @@ mod tests {
                 corner_hz: 5.0,
                 order: 4,
                 sample_rate_hz: 1000.0,
+                phase: Default::default(),
             }),
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &tower).unwrap();
         assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
@@ -267,6 +270,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_max_g - 1.0).abs() < 1e-12);
@@ -274,6 +278,7 @@ mod tests {
         let tower = Rider {
             track_axis: Axis::Z,
             filter: None,
+            rates: Default::default(),
         };
         // Moving up the tower (towards −s) the brake pushes down: −z.
         let s = rider_signals(&r, &tower).unwrap();
@@ -286,6 +291,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         assert_eq!(
             rider_signals(&r, &seated).err(),
