@@ -33,9 +33,11 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
             a.out.display()
         )));
     }
-    let input = std::fs::read(&a.scenario)
+    // Loading checks the file (regular, bounded) before its bytes are read for the digest.
+    let scenario = load(&a.scenario, None)?;
+    let input = eddyzone::scenario::validate::read_input(&a.scenario)
         .map_err(|e| Error::Usage(format!("{}: {e}", a.scenario.display())))?;
-    let study = Study::new(load(&a.scenario, None)?)?;
+    let study = Study::new(scenario)?;
     let options = JudgeOptions {
         run: RunOptions {
             sampling: Sampling::Full,
@@ -57,7 +59,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
             .file_name()
             .map(|n| n.to_string_lossy().into_owned())
             .unwrap_or_default(),
-        input_bytes: &input,
+        input_bytes: input.as_bytes(),
         generated: generation_stamp(),
     };
     let bundle = report_bundle(&study, &judged, &source)?;
