@@ -8,7 +8,7 @@ use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
 use eddyzone::report::bundle::{report_bundle, ReportSource};
 use eddyzone::report::html::generation_stamp;
-use eddyzone::report::write_files;
+use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::study::{HeatDemand, JudgeOptions, Study};
 use std::path::PathBuf;
 
@@ -20,7 +20,7 @@ pub struct ReportArgs {
     /// Folder to write the report into.
     #[arg(long)]
     pub out: PathBuf,
-    /// Overwrite files in an existing folder.
+    /// Replace an existing folder (as a whole: no file of the old report survives).
     #[arg(long)]
     pub force: bool,
 }
@@ -29,7 +29,7 @@ pub struct ReportArgs {
 pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
     if a.out.exists() && !a.force {
         return Err(Error::Usage(format!(
-            "--out: {} already exists; pass --force to overwrite its files",
+            "--out: {} already exists; pass --force to replace it",
             a.out.display()
         )));
     }
@@ -63,7 +63,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         generated: generation_stamp(),
     };
     let bundle = report_bundle(&study, &judged, &source)?;
-    write_files(&a.out, &bundle.files)?;
+    write_folder(&a.out, &bundle.files, Placement::Replace)?;
     eprintln!(
         "wrote {} ({} figures, {} profiles): {}",
         a.out.join("report.html").display(),

@@ -35,6 +35,14 @@ impl Validator {
                 Kind::SpecificHeat,
                 &format!("{p}.specific_heat"),
             );
+            let softening = m
+                .softening
+                .as_ref()
+                .map(|q| self.temperature(&Some(q.clone()), &format!("{p}.softening"), 0.0));
+            let solidus = m
+                .solidus
+                .as_ref()
+                .map(|q| self.temperature(&Some(q.clone()), &format!("{p}.solidus"), 0.0));
             if out.iter().any(|b| &b.name == name) {
                 self.at(
                     &m.conductivity.referenced,
@@ -56,6 +64,8 @@ impl Validator {
                         .source
                         .clone()
                         .unwrap_or_else(|| defaults::MATERIAL_SOURCE.into()),
+                    softening_c: softening.flatten(),
+                    solidus_c: solidus.flatten(),
                 });
             }
         }
