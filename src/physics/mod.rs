@@ -24,13 +24,17 @@
 
 pub mod edge;
 mod eigen;
+pub mod ends;
 pub mod field;
+pub mod fin_ends;
 pub mod layer;
 pub mod measured;
 mod quadrature;
 pub mod table;
 
 pub use edge::{russell_norsworthy, EdgeModel, EdgeResolution, FiniteHeightEdge};
+pub use ends::{section_end_lengths, EndLengths, EndTable};
+pub use fin_ends::{fin_end_lengths, FinEndLengths, FinEndTable};
 pub use layer::{skin_depth_m, DragModel, HarmonicTerm};
 pub use measured::MeasuredCurve;
 pub use table::ForceTable;
