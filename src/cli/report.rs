@@ -7,8 +7,8 @@ use super::progress::Bar;
 use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
 use eddyzone::report::bundle::{report_bundle, ReportSource};
-use eddyzone::report::html::generation_stamp;
 use eddyzone::report::folder::{write_folder, Placement};
+use eddyzone::report::html::generation_stamp;
 use eddyzone::study::{HeatDemand, JudgeOptions, Study};
 use std::path::PathBuf;
 

@@ -75,7 +75,13 @@ pub fn profile_csv(
             format!("{}", s.overlap_m),
         ];
         for e in extra {
-            rec.push(e.1.get(i).copied().flatten().map(|v| format!("{v}")).unwrap_or_default());
+            rec.push(
+                e.1.get(i)
+                    .copied()
+                    .flatten()
+                    .map(|v| format!("{v}"))
+                    .unwrap_or_default(),
+            );
         }
         w.write_record(&rec)?;
     }
@@ -124,7 +130,12 @@ pub fn heat_profiles(heats: &[CaseHeat]) -> Result<Vec<OutputFile>, csv::Error> 
             .track_profiles
             .iter()
             .zip(&names)
-            .map(|(p, name)| (name.as_str(), run.samples.iter().map(|s| p.temp_at(s.s_m)).collect()))
+            .map(|(p, name)| {
+                (
+                    name.as_str(),
+                    run.samples.iter().map(|s| p.temp_at(s.s_m)).collect(),
+                )
+            })
             .collect();
         files.push((h.case.clone(), profile_csv(&run.samples, &extra)?));
         for p in &h.track_profiles {

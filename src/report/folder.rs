@@ -118,8 +118,8 @@ impl Staging {
                     fs::remove_dir_all(&self.old).map_err(|e| write_error(&self.old, e))?;
                 }
                 Placement::Merge => {
-                    let entries = fs::read_dir(&self.partial)
-                        .map_err(|e| write_error(&self.partial, e))?;
+                    let entries =
+                        fs::read_dir(&self.partial).map_err(|e| write_error(&self.partial, e))?;
                     for entry in entries {
                         let entry = entry.map_err(|e| write_error(&self.partial, e))?;
                         let to = target.join(entry.file_name());
@@ -171,7 +171,11 @@ mod tests {
             .unwrap()
             .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
             .collect();
-        assert_eq!(names, vec!["out".to_string()], "nothing left beside: {names:?}");
+        assert_eq!(
+            names,
+            vec!["out".to_string()],
+            "nothing left beside: {names:?}"
+        );
     }
 
     #[test]

@@ -6,10 +6,10 @@ pub mod bundle;
 pub mod csv_out;
 /// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
 pub mod figures;
-/// The self-contained HTML report.
-pub mod html;
 /// Output folders written as a whole, under a lock.
 pub mod folder;
+/// The self-contained HTML report.
+pub mod html;
 /// JSON documents printed by `--json`.
 pub mod json_out;
 /// Generic line charts rendered to PNG and SVG with an embedded font.
@@ -88,7 +88,6 @@ pub fn make_dir(dir: &Path) -> Result<(), OutputError> {
         source,
     })
 }
-
 
 /// The caution printed by `check` and carried by the README and the report.
 pub const CAUTION: &str = "CAUTION: eddyzone is a concept-stage design aid. Passenger-carrying devices need physical \
