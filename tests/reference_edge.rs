@@ -14,6 +14,7 @@
 //! Method*, 1973, for P1 elements and their O(h²) energy convergence). Tolerances are stated
 //! beside each check.
 
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 use eddyzone::constants::MU0_H_M;
 use eddyzone::physics::{
     russell_norsworthy, BrakeGeometry, DragModel, EdgeModel, EdgeResolution, FiniteHeightEdge,

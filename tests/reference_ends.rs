@@ -12,6 +12,7 @@
 //! N = 4, 8, 16, 32 poles are compared with the end-length model of `src/physics/ends.rs`.
 //! Tolerances are stated beside each check.
 
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 use eddyzone::constants::MU0_H_M;
 use eddyzone::physics::{section_end_lengths, BrakeGeometry, DragModel};
 use std::f64::consts::PI;

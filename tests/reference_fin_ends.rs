@@ -14,6 +14,7 @@
 //! problem (e.g. Stoll, *The Analysis of Eddy Currents*, Clarendon Press, 1974, from memory);
 //! the periodic limit is the layer theory checked first. Tolerances beside each check.
 
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 use eddyzone::constants::MU0_H_M;
 use eddyzone::physics::field::{source_amplitude_t, wavenumber_per_m};
 use eddyzone::physics::{fin_end_lengths, BrakeGeometry, DragModel, FinEndTable};
