@@ -330,3 +330,69 @@ fn the_report_verdict_names_failing_cases_and_checks() {
     assert!(html.contains("<td>steady</td>"), "states shown");
     assert!(html.contains("braking while descending is +z"));
 }
+
+/// An arrester is judged on where it stops: the front position at rest against
+/// `limits.stop_position`, the same number as `run`'s `stall_position_m`; a vehicle that leaves
+/// the zone without stopping fails the row with its reason (never a missing row).
+#[test]
+fn arrester_stop_position_is_judged_and_a_vehicle_that_does_not_stop_fails() {
+    let tmp = tempfile::tempdir().unwrap();
+    let arrester = |speed: &str, limits: &str| {
+        format!(
+            "version: 1
+name: arrester
+vehicle:
+  mass: 900 kg
+  length: 4 m
+  fins:
+    - {{ name: fin, offset: 0.5 m, length: 3 m, height: 200 mm, thickness: 10 mm, material: copper-c11000 }}
+sections:
+  - {{ name: S, start: 8 m, length: 2 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9,
+      remanence: 1.25 T, clearance: 4 mm, pole_height: 180 mm, repeat: {{ count: 4, pitch: 2 m }} }}
+track: {{ grade: 0 % }}
+resistance: {{ rolling: 0.01, friction: 200 N }}
+start: {{ position: 5 m, speed: {speed} }}
+time_limit: 60 s
+rider: {{ track_axis: x }}
+limits: {{ allow_stall: true, stop_position: {{ {limits} }} }}
+"
+        )
+    };
+    let p = write(tmp.path(), "a.yaml", &arrester("20 m/s", "max: 40 m"));
+    let stop = json(&run(&["run", &p, "--json"], tmp.path()))["cases"][0]["stall_position_m"]
+        .as_f64()
+        .unwrap();
+    let o = run(&["check", &p, "--json"], tmp.path());
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let r = rows(&json(&o), "nominal")
+        .iter()
+        .find(|r| r["check"] == "stop_position_max")
+        .unwrap()
+        .clone();
+    assert_eq!(r["value"].as_f64().unwrap(), stop);
+    assert!((r["margin"].as_f64().unwrap() - (40.0 - stop)).abs() < 1e-12);
+    // Stopping short of a minimum, or beyond a tighter maximum, fails.
+    for limits in ["max: 10 m", "min: 14 m"] {
+        let p = write(tmp.path(), "b.yaml", &arrester("20 m/s", limits));
+        let o = run(&["check", &p, "--json"], tmp.path());
+        assert_eq!(o.status.code(), Some(1), "{limits}: {}", stdout(&o));
+    }
+    // Too fast to stop in 8 m of magnets: the row is there, failing, with its reason.
+    let p = write(tmp.path(), "c.yaml", &arrester("80 m/s", "max: 40 m"));
+    let o = run(&["check", &p, "--json"], tmp.path());
+    assert_eq!(o.status.code(), Some(1), "{}", stdout(&o));
+    let v = json(&o);
+    let r = rows(&v, "nominal")
+        .iter()
+        .find(|r| r["check"] == "stop_position_max")
+        .unwrap()
+        .clone();
+    assert_eq!(r["pass"], false);
+    assert!(
+        r["not_evaluated"]
+            .as_str()
+            .unwrap()
+            .contains("without stopping"),
+        "{r}"
+    );
+}

@@ -414,6 +414,33 @@ fn exit_speed_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckRow
     }
 }
 
+/// Stop-position checks (arresters): the front position where the vehicle came to rest against
+/// the window. A vehicle that did not stop in the zone fails with the reason.
+fn stop_position_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckRow>) {
+    let lim = &scenario.limits;
+    let bounds = [
+        ("stop_position_min", lim.stop_position_min_m, false),
+        ("stop_position_max", lim.stop_position_max_m, true),
+    ];
+    for (check, limit, is_max) in bounds {
+        let Some(limit) = limit else { continue };
+        match (run.outcome, run.stall_position_m) {
+            (Outcome::Stalled, Some(x)) => {
+                let margin = if is_max { limit - x } else { x - limit };
+                rows.push(row(check, None, x, limit, margin, "m"));
+            }
+            (outcome, _) => {
+                let why = match outcome {
+                    Outcome::Cleared => "the vehicle left the zone without stopping",
+                    Outcome::RolledBack => "the vehicle rolled back out of the entry end",
+                    _ => "the vehicle did not come to rest within the time limit",
+                };
+                rows.push(unevaluated(check, None, Some(limit), "m", why, false));
+            }
+        }
+    }
+}
+
 /// Checks of one case.
 pub fn check_case(
     scenario: &Scenario,
@@ -443,6 +470,7 @@ pub fn check_case(
     combined_rows(scenario, &signals, &mut rows);
     rate_rows(scenario, &signals, &mut rows);
     exit_speed_rows(scenario, run, &mut rows);
+    stop_position_rows(scenario, run, &mut rows);
     if let Some(limit) = lim.max_duration_s {
         match run.time_in_zone_s {
             Some(d) => rows.push(row("duration", None, d, limit, limit - d, "s")),

@@ -536,6 +536,10 @@ pub struct Limits {
     pub exit_speed_max_m_s: Option<f64>,
     /// Longest time in zone, s.
     pub max_duration_s: Option<f64>,
+    /// Lowest front position at rest (a stop), m.
+    pub stop_position_min_m: Option<f64>,
+    /// Highest front position at rest (the stopping distance of an arrester), m.
+    pub stop_position_max_m: Option<f64>,
     /// A stall inside the zone is acceptable.
     pub allow_stall: bool,
     /// A reversal is acceptable.

@@ -530,6 +530,9 @@ pub struct RawLimits {
     /// Longest time in the zone.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub max_duration: Option<Q>,
+    /// Window of the front position where the vehicle comes to rest (arresters, stopping brakes).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub stop_position: Option<RawWindow>,
     /// Whether a stall inside the zone is acceptable (a holding brake follows).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub allow_stall: Option<bool>,

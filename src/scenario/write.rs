@@ -628,6 +628,15 @@ impl Writer<'_> {
             max_duration: l
                 .max_duration_s
                 .map(|t| self.q("limits.max_duration", Kind::Time, t)),
+            stop_position: (l.stop_position_min_m.is_some() || l.stop_position_max_m.is_some())
+                .then(|| RawWindow {
+                    min: l
+                        .stop_position_min_m
+                        .map(|v| self.q("limits.stop_position.min", Kind::Length, v)),
+                    max: l
+                        .stop_position_max_m
+                        .map(|v| self.q("limits.stop_position.max", Kind::Length, v)),
+                }),
             allow_stall: Some(l.allow_stall),
             allow_rollback: Some(l.allow_rollback),
             max_fin_temperature: l

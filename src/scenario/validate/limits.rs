@@ -124,6 +124,23 @@ impl Validator {
                 }
             }
         }
+        if let Some(w) = &r.stop_position {
+            if let Some(q) = &w.min {
+                out.stop_position_min_m = self.q(q, Kind::Length, "limits.stop_position.min");
+            }
+            if let Some(q) = &w.max {
+                out.stop_position_max_m = self.q(q, Kind::Length, "limits.stop_position.max");
+            }
+            if let (Some(lo), Some(hi)) = (out.stop_position_min_m, out.stop_position_max_m) {
+                if lo > hi {
+                    self.push(
+                        w.min.as_ref().and_then(|q| loc(&q.referenced)),
+                        "limits.stop_position",
+                        "min is above max",
+                    );
+                }
+            }
+        }
         if let Some(q) = &r.max_duration {
             out.max_duration_s = self.positive(q, Kind::Time, "limits.max_duration");
         }
