@@ -95,6 +95,19 @@ pub fn pass(
             beam.len(),
             ev.simulated()
         ));
+        // A node whose every case settled before this slot has no completion better than itself
+        // (BoundaryState::settled): it ends here (sound).
+        if tracker.all_tracked {
+            let before = beam.len();
+            beam.retain(|n| !(n.eval.is_some() && n.state.settled()));
+            cov.pruned_dead += before - beam.len();
+            if beam.is_empty() {
+                if exact {
+                    cov.exact_through_slots = max_depth;
+                }
+                break;
+            }
+        }
         let mut layouts: Vec<Layout> = Vec::with_capacity(beam.len() * levels);
         for n in &beam {
             for c in 0..levels {

@@ -96,6 +96,19 @@ pub struct BoundaryState {
     pub health: f64,
 }
 
+impl BoundaryState {
+    /// Every tracked case (one-section-out cases included) stopped, reversed or ran out of time
+    /// before this boundary: no completion's module at or after it is ever reached, so every
+    /// tracked run of a completion is this layout's run. When every case is tracked
+    /// ([`Tracker::all_tracked`]) a completion's verdict is this layout's plus one more
+    /// one-section-out case per added module, which is this layout itself: it passes only if
+    /// this layout does, with more modules and a longer zone.
+    pub fn settled(&self) -> bool {
+        let done = |c: &CaseState| c.exact && c.speed_m_s == 0.0;
+        self.base.iter().all(done) && self.n1.as_ref().is_none_or(done)
+    }
+}
+
 /// Which checks and cases are tracked, and where the boundaries lie.
 #[derive(Debug, Clone)]
 pub struct Tracker {
@@ -116,6 +129,10 @@ pub struct Tracker {
     pub base_cases: Vec<(usize, String, f64)>,
     /// Slots a fin can reach behind the foremost fin edge (the "tail" of a partial layout).
     pub tail_slots: usize,
+    /// Every case is tracked and there is no duty block: a partial layout whose tracked cases
+    /// all settled before a boundary has the verdict of each of its completions (see
+    /// [`BoundaryState::settled`]).
+    pub all_tracked: bool,
 }
 
 /// Whether a case is tracked: it moves forward from upstream in travel order.
@@ -194,6 +211,7 @@ impl Tracker {
                 .map(|(i, c)| (i, c.name.clone(), c.start_speed_m_s))
                 .collect(),
             tail_slots: (tail.max(1.0) as usize).min(64),
+            all_tracked: base.duty.is_none() && base.cases.iter().all(tracked),
         }
     }
 
@@ -365,6 +383,9 @@ impl Tracker {
             };
             let window = &samples[..idx];
             let t_last = window.last().map(|s| s.t_s);
+            // Settled before the boundary (stalled, reversed out, out of time): the completion
+            // never reaches the next slot, so its run is this one, filtered values included.
+            let whole = !reached && run.outcome != Outcome::Cleared;
             // Envelopes (the costly check) are evaluated at the first boundary and past the
             // run's end; in between the first value is kept: an upper bound of the margin there,
             // so the dead test stays sound (it only prunes less).
@@ -376,7 +397,7 @@ impl Tracker {
                 .enumerate()
                 .map(|(k, (r, ext))| match (r, first_margins) {
                     (Running::Envelope { .. }, Some(m)) if reached => m[k],
-                    _ => self.margin(r, ext, &signals, window, t_last, t_b, run),
+                    _ => self.margin(r, ext, &signals, window, (t_last, whole), t_b, run),
                 })
                 .collect();
             let mut dead = margins.iter().any(|&m| m < -DEAD_TOLERANCE);
@@ -411,10 +432,15 @@ impl Tracker {
         extreme: &[f64],
         signals: &Option<crate::checks::rider::RiderSignals>,
         window: &[crate::dynamics::Sample],
-        t_last: Option<f64>,
+        (t_last, whole): (Option<f64>, bool),
         t_b: f64,
         run: &RunResult,
     ) -> f64 {
+        let (lag, leak_g) = if whole {
+            (0, 0.0)
+        } else {
+            (self.lag_points, self.leak_g)
+        };
         // Grid points at or before the last shared sample.
         let shared = |sig: &UniformSignal| -> usize {
             match t_last {
@@ -424,7 +450,7 @@ impl Tracker {
                 _ => 0,
             }
         };
-        let filtered = |sig: &UniformSignal| shared(sig).saturating_sub(self.lag_points);
+        let filtered = |sig: &UniformSignal| shared(sig).saturating_sub(lag);
         let rel = |m: f64, limit: f64| m / limit.abs().max(1e-12);
         match r {
             Running::Peak {
@@ -441,7 +467,7 @@ impl Tracker {
                 }
                 let e = extreme[n - 1];
                 let m = if *negative { e - limit_g } else { limit_g - e };
-                rel(m + self.leak_g, *limit_g)
+                rel(m + leak_g, *limit_g)
             }
             Running::Envelope {
                 axis,
@@ -462,7 +488,7 @@ impl Tracker {
                     .collect();
                 // S(D) moves by at most the largest change of the signal.
                 match UniformSignal::new(s.dt_s, s.t0_s, values).and_then(|u| envelope.check(&u)) {
-                    Ok(res) => rel(res.worst_margin + self.leak_g, res.allowed),
+                    Ok(res) => rel(res.worst_margin + leak_g, res.allowed),
                     Err(_) => f64::INFINITY,
                 }
             }
@@ -476,7 +502,7 @@ impl Tracker {
                     RateSignal::Filtered => (
                         &sig.braking_filtered,
                         filtered(&sig.braking_filtered),
-                        self.leak_g,
+                        leak_g,
                     ),
                 };
                 let part = UniformSignal {
