@@ -443,4 +443,20 @@ fn cli_names_the_outcome_and_the_units() {
     );
     assert!(out.contains("PROVEN INFEASIBLE"), "{out}");
     assert!(out.contains("exit_speed_max"), "{out}");
+    // A search cut short never reads like a proof: it says what it found and what it covered.
+    let st = Command::new(exe)
+        .args([
+            "plan",
+            "scenarios/sled-arrester-plan.yaml",
+            "--max-candidates",
+            "5",
+        ])
+        .output()
+        .expect("runs");
+    let out = String::from_utf8_lossy(&st.stdout);
+    assert_eq!(st.status.code(), Some(1), "{out}");
+    assert!(out.contains("NO LAYOUT FOUND (not a proof"), "{out}");
+    assert!(!out.contains("PROVEN"), "{out}");
+    assert!(out.contains("closest layout"), "{out}");
+    assert!(out.contains("stopped at the cap of 5 candidates"), "{out}");
 }

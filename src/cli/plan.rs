@@ -112,16 +112,23 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     let r = plan(&s, &options, progress);
     bar.finish();
     let r = r?;
-    if let (Some(path), Some(p)) = (&a.write, r.feasible()) {
-        let yaml = to_yaml(&p.scenario).map_err(OutputError::from)?;
-        write_file(path, yaml.as_bytes())?;
-        eprintln!(
-            "wrote {}: {} planned module(s) in place of the scenario's {} section(s)",
-            path.display(),
-            p.module_count,
-            s.sections.len()
-        );
+    match (&a.write, r.feasible()) {
+        (Some(path), Some(p)) => {
+            let yaml = to_yaml(&p.scenario).map_err(OutputError::from)?;
+            write_file(path, yaml.as_bytes())?;
+            eprintln!(
+                "wrote {}: {} planned module(s) in place of the scenario's {} section(s)",
+                path.display(),
+                p.module_count,
+                s.sections.len()
+            );
+        }
+        (Some(path), None) => {
+            eprintln!("nothing written to {}: no feasible layout", path.display())
+        }
+        (None, _) => {}
     }
+
     if a.json {
         emit(&pretty(&PlanJson::new(&r))?)?;
     } else {

@@ -78,7 +78,8 @@ pub struct Bounds {
     /// An upper bound on the magnitude of the felt acceleration on every rider axis, in every
     /// forward case of every layout, g (+∞ when not known): twice the strongest braking of every
     /// fin (its length times the strongest force per metre) plus the resistance at the speed
-    /// bound, over m·g, and at least 1 (the track-normal part of gravity).
+    /// bound, over m·g, and at least the largest track-normal value (1 + v²·π/(L·g), L the
+    /// vehicle length).
     pub felt_bound_g: f64,
 }
 
@@ -258,7 +259,10 @@ pub fn bounds(base: &Scenario, spec: &PlanSpec, cache: &TableCache) -> Result<Bo
     };
     let n1_bases = super::section_out_bases(base);
     let mut out = Vec::new();
-    let mut felt_bound_g = 1.0f64;
+    // Track-normal felt acceleration: cos θ plus v²κ/g, with |κ| at most π over the vehicle's
+    // length (the mean curvature is the change of the inclination over the vehicle).
+    let mut felt_bound_g =
+        1.0 + v_cap * v_cap * std::f64::consts::PI / (base.vehicle.length_m.max(1e-9) * G);
     for (ci, case) in base.cases.iter().enumerate() {
         let listed = matches!(case.origin, CaseOrigin::Listed | CaseOrigin::Corner { .. });
         if !listed || case.start_speed_m_s < 0.0 {

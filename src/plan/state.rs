@@ -604,6 +604,7 @@ mod tests {
                 gravity_force_n: 0.0,
                 resistance_force_n: 0.0,
                 cos_theta: 1.0,
+                curvature_1_m: 0.0,
                 overlap_m: 0.0,
                 event: false,
             })

@@ -329,26 +329,36 @@ fn coverage_text(out: &mut String, c: &Coverage) {
         SearchStop::CandidateCap { cap } => format!("stopped at the cap of {cap} candidates"),
         SearchStop::TimeCap { seconds } => format!("stopped at the time cap of {seconds} s"),
     };
-    outln!(
-        out,
-        "search: beam passes of width {} over up to {} slots × {} settings; every layout of up \
-         to {} slots simulated or soundly excluded; no feasible layout has fewer than {} slots \
-         (bound); {} candidates simulated (cap {}), {} local steps, {:.2} s; {stop}",
-        if widths.is_empty() {
-            "-".into()
-        } else {
-            widths.join(", ")
-        },
-        c.max_slots,
-        c.settings,
-        c.exact_through_slots,
-        c.length_lower_bound_slots
-            .map_or("-".into(), |l| l.to_string()),
-        c.candidates_simulated,
-        c.candidate_cap,
-        c.local_steps,
-        c.elapsed_s,
-    );
+    let mut parts: Vec<String> = Vec::new();
+    if widths.is_empty() {
+        parts.push(format!(
+            "{} slots × {} settings; no beam pass was needed",
+            c.max_slots, c.settings
+        ));
+    } else {
+        parts.push(format!(
+            "beam passes of width {} over up to {} slots × {} settings",
+            widths.join(", "),
+            c.max_slots,
+            c.settings
+        ));
+    }
+    if c.exact_through_slots > 0 {
+        parts.push(format!(
+            "every layout of up to {} slots simulated or soundly excluded",
+            c.exact_through_slots
+        ));
+    }
+    parts.push(match c.length_lower_bound_slots {
+        Some(l) => format!("no feasible layout has fewer than {l} slots (bound)"),
+        None => "the bound excludes every length".into(),
+    });
+    parts.push(format!(
+        "{} probe(s) with every slot at the tightest setting, {} candidates simulated (cap {}), \
+         {} local steps, {:.2} s; {stop}",
+        c.probes, c.candidates_simulated, c.candidate_cap, c.local_steps, c.elapsed_s
+    ));
+    outln!(out, "search: {}", parts.join("; "));
     let pruned: usize = c
         .passes
         .iter()
