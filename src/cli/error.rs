@@ -54,7 +54,11 @@ pub fn exit_code(e: &Error) -> i32 {
     match e {
         Error::Scenario(_)
         | Error::Usage(_)
-        | Error::Plan(PlanError::NoPlan)
+        | Error::Plan(
+            PlanError::NoPlan
+            | PlanError::LengthTooShort { .. }
+            | PlanError::Study(StudyError::SampleBudget { .. }),
+        )
         | Error::Study(StudyError::SampleBudget { .. }) => EXIT_BAD_INPUT,
         Error::Study(_) | Error::Plan(PlanError::Study(_)) => EXIT_COMPUTATION,
         Error::Output(_) => EXIT_OUTPUT,

@@ -139,30 +139,72 @@ impl<'a> HeatJson<'a> {
 /// The `plan --json` document.
 #[derive(Debug, Serialize)]
 pub struct PlanJson<'a> {
+    /// `feasible`, `proven_infeasible` or `not_found`.
+    pub outcome: &'static str,
+    /// What was optimised.
+    pub objective: &'a crate::plan::Objective,
     /// A layout passed every case.
     pub feasible: bool,
-    /// m.
+    /// The feasible layout (None otherwise).
+    pub plan: Option<PlannedJson<'a>>,
+    /// Proven infeasible: why.
+    pub reason: Option<&'a crate::plan::Infeasibility>,
+    /// The reason in words.
+    pub reason_text: Option<String>,
+    /// Not found: the closest layout.
+    pub near_miss: Option<PlannedJson<'a>>,
+    /// Not found: its failing checks, worst first.
+    pub near_miss_failing: Option<&'a [crate::plan::Failing]>,
+    /// What the search covered.
+    pub coverage: &'a crate::plan::Coverage,
+}
+
+/// A reported layout in `plan --json`.
+#[derive(Debug, Serialize)]
+pub struct PlannedJson<'a> {
+    /// First module start to last module end, m.
     pub zone_length_m: f64,
+    /// Last module end, m.
+    pub zone_end_m: f64,
+    /// Smallest margin/|limit| over every limited check.
+    pub worst_relative_margin: Option<f64>,
     /// Modules.
-    pub modules: &'a [crate::plan::PlacedModule],
-    /// Binding case and margin of each check.
+    pub modules: &'a [crate::plan::ModuleRow],
+    /// Binding case and margin (with unit) of each check.
     pub binding: &'a [crate::plan::Binding],
-    /// Infeasible: which constraint binds.
-    pub reason: Option<&'a str>,
-    /// Candidates simulated.
-    pub candidates_simulated: usize,
+}
+
+impl<'a> PlannedJson<'a> {
+    fn new(p: &'a crate::plan::Planned) -> Self {
+        PlannedJson {
+            zone_length_m: p.zone_length_m,
+            zone_end_m: p.zone_end_m,
+            worst_relative_margin: p.worst_relative_margin,
+            modules: &p.modules,
+            binding: &p.binding,
+        }
+    }
 }
 
 impl<'a> PlanJson<'a> {
     /// The document of a plan result.
     pub fn new(r: &'a crate::plan::PlanResult) -> Self {
+        use crate::plan::PlanOutcome;
+        let (plan, reason, near) = match &r.outcome {
+            PlanOutcome::Feasible { plan, .. } => (Some(PlannedJson::new(plan)), None, None),
+            PlanOutcome::ProvenInfeasible { reason, .. } => (None, Some(reason), None),
+            PlanOutcome::NotFound { near_miss, .. } => (None, None, near_miss.as_deref()),
+        };
         PlanJson {
-            feasible: r.feasible,
-            zone_length_m: r.zone_length_m,
-            modules: &r.modules,
-            binding: &r.binding,
-            reason: r.reason.as_deref(),
-            candidates_simulated: r.candidates_simulated,
+            outcome: r.outcome_name(),
+            objective: &r.objective,
+            feasible: plan.is_some(),
+            plan,
+            reason,
+            reason_text: reason.map(|x| x.to_string()),
+            near_miss: near.map(|n| PlannedJson::new(&n.plan)),
+            near_miss_failing: near.map(|n| n.failing.as_slice()),
+            coverage: r.coverage(),
         }
     }
 }

@@ -7,7 +7,7 @@ use crate::checks::rider::sign_convention;
 use crate::checks::Verdict;
 use crate::curve::PairCurve;
 use crate::dynamics::RunResult;
-use crate::plan::PlanResult;
+use crate::plan::{Coverage, Objective, PlanOutcome, PlanResult, Planned, SearchStop};
 use crate::scenario::{Rider, Scenario};
 use crate::thermal::CaseHeat;
 
@@ -293,43 +293,165 @@ pub fn heat_text(s: &Scenario, heats: &[CaseHeat]) -> String {
     out
 }
 
+/// The objective of a plan in words.
+pub fn objective_text(o: &Objective) -> String {
+    match o {
+        Objective::Shortest => "shortest zone, then fewest modules".into(),
+        Objective::Margin { length_m } => {
+            format!("largest worst-case margin within {length_m:.3} m of the zone start")
+        }
+    }
+}
+
+/// A margin with its unit ("0.130 g"), or "-".
+fn with_unit(x: Option<f64>, unit: &str) -> String {
+    match x {
+        Some(_) => format!("{} {unit}", num(x, 3)).trim_end().to_string(),
+        None => "-".into(),
+    }
+}
+
+fn modules_table(out: &mut String, p: &Planned) {
+    let mut t = Table::new(&["module", "slot", "start_m", "clearance_mm"]);
+    for m in &p.modules {
+        t.row(vec![
+            m.name.clone(),
+            m.slot.to_string(),
+            num(Some(m.start_m), 3),
+            num(Some(m.clearance_m * 1e3), 1),
+        ]);
+    }
+    out.push_str(&t.render());
+}
+
+fn coverage_text(out: &mut String, c: &Coverage) {
+    let widths: Vec<String> = c.passes.iter().map(|p| p.width.to_string()).collect();
+    let stop = match c.stop {
+        SearchStop::Completed => "completed".to_string(),
+        SearchStop::CandidateCap { cap } => format!("stopped at the cap of {cap} candidates"),
+        SearchStop::TimeCap { seconds } => format!("stopped at the time cap of {seconds} s"),
+    };
+    let mut parts: Vec<String> = Vec::new();
+    if widths.is_empty() {
+        parts.push(format!(
+            "{} slots × {} settings; no beam pass was needed",
+            c.max_slots, c.settings
+        ));
+    } else {
+        parts.push(format!(
+            "beam passes of width {} over up to {} slots × {} settings",
+            widths.join(", "),
+            c.max_slots,
+            c.settings
+        ));
+    }
+    if c.exact_through_slots > 0 {
+        parts.push(format!(
+            "every layout of up to {} slots simulated or soundly excluded",
+            c.exact_through_slots
+        ));
+    }
+    parts.push(match c.length_lower_bound_slots {
+        Some(l) => format!("no feasible layout has fewer than {l} slots (bound)"),
+        None => "the bound excludes every length".into(),
+    });
+    parts.push(format!(
+        "{} probe(s) with every slot at the tightest setting, {} candidates simulated (cap {}), \
+         {} local steps, {:.2} s; {stop}",
+        c.probes, c.candidates_simulated, c.candidate_cap, c.local_steps, c.elapsed_s
+    ));
+    outln!(out, "search: {}", parts.join("; "));
+    let pruned: usize = c
+        .passes
+        .iter()
+        .map(|p| p.pruned_dead + p.pruned_too_fast)
+        .sum();
+    let heuristic: usize = c
+        .passes
+        .iter()
+        .map(|p| p.pruned_dominated + p.dropped_by_width)
+        .sum();
+    outln!(
+        out,
+        "partial layouts excluded soundly: {pruned}; dropped heuristically (dominance, beam width): {heuristic}"
+    );
+}
+
+fn binding_table(out: &mut String, p: &Planned) {
+    let mut w = Table::new(&["check", "binding_case", "state", "margin"]);
+    for b in &p.binding {
+        w.row(vec![
+            b.check.clone(),
+            b.case.clone(),
+            b.state.map_or("-", |s| s.name()).to_string(),
+            with_unit(b.margin, &b.unit),
+        ]);
+    }
+    out.push_str(&w.render());
+}
+
 /// The `plan` document.
 pub fn plan_text(name: &str, r: &PlanResult) -> String {
     let mut out = String::new();
-    if r.feasible {
-        outln!(
-            out,
-            "{name} — plan: {} module(s), zone length {} m ({} candidates simulated)",
-            r.modules.len(),
-            num(Some(r.zone_length_m), 3),
-            r.candidates_simulated
-        );
-        let mut t = Table::new(&["module", "start_m", "clearance_mm"]);
-        for (i, m) in r.modules.iter().enumerate() {
-            t.row(vec![
-                format!("P{}", i + 1),
-                num(Some(m.start_m), 3),
-                num(Some(m.clearance_m * 1e3), 1),
-            ]);
+    let objective = objective_text(&r.objective);
+    match &r.outcome {
+        PlanOutcome::Feasible { plan: p, coverage } => {
+            outln!(
+                out,
+                "{name} — plan ({objective}): {} module(s), zone {} → {} m (length {} m), \
+                 worst relative margin {}",
+                p.module_count,
+                num(p.modules.first().map(|m| m.start_m), 3),
+                num(Some(p.zone_end_m), 3),
+                num(Some(p.zone_length_m), 3),
+                num(p.worst_relative_margin, 4),
+            );
+            if r.objective == Objective::Shortest {
+                outln!(
+                    out,
+                    "{}",
+                    if coverage.shortest_proven {
+                        "the shortest possible zone: no layout with fewer slots can pass"
+                    } else {
+                        "the shortest zone found; a shorter one is not excluded (see the search line)"
+                    }
+                );
+            }
+            modules_table(&mut out, p);
+            outln!(out, "Binding case of each check");
+            binding_table(&mut out, p);
+            coverage_text(&mut out, coverage);
         }
-        out.push_str(&t.render());
-        outln!(out, "Binding case of each check");
-    } else {
-        outln!(
-            out,
-            "{name} — plan: INFEASIBLE ({} candidates simulated)",
-            r.candidates_simulated
-        );
-        if let Some(reason) = &r.reason {
+        PlanOutcome::ProvenInfeasible { reason, coverage } => {
+            outln!(out, "{name} — plan ({objective}): PROVEN INFEASIBLE");
             outln!(out, "{reason}");
+            coverage_text(&mut out, coverage);
         }
-        outln!(out, "Checks of the last layout tried");
+        PlanOutcome::NotFound {
+            near_miss,
+            coverage,
+        } => {
+            outln!(
+                out,
+                "{name} — plan ({objective}): NO LAYOUT FOUND (not a proof that none exists)"
+            );
+            if let Some(n) = near_miss {
+                let p = &n.plan;
+                outln!(
+                    out,
+                    "closest layout: {} module(s), zone {} → {} m; failing:",
+                    p.module_count,
+                    num(p.modules.first().map(|m| m.start_m), 3),
+                    num(Some(p.zone_end_m), 3),
+                );
+                for f in n.failing.iter().take(8) {
+                    outln!(out, "  {f}");
+                }
+                modules_table(&mut out, p);
+            }
+            coverage_text(&mut out, coverage);
+        }
     }
-    let mut w = Table::new(&["check", "binding_case", "margin"]);
-    for b in &r.binding {
-        w.row(vec![b.check.clone(), b.case.clone(), num(b.margin, 3)]);
-    }
-    out.push_str(&w.render());
     out
 }
 
