@@ -12,6 +12,7 @@ mod limits;
 mod plan;
 mod sections;
 mod settings;
+mod sweep;
 #[cfg(test)]
 mod tests;
 mod track;
@@ -608,6 +609,7 @@ impl Validator {
             magnet_temp_c: magnet_temp_c?,
             disabled: vec![],
             resistance: nominal_res?,
+            force_factor: defaults::FORCE_FACTOR,
         };
         let mut cases = match &raw.cases {
             None => vec![nominal.clone()],
@@ -636,6 +638,10 @@ impl Validator {
             cases.extend(generated);
         }
         self.work_budget(raw, &cases, &fins, &sections, duty.as_ref());
+        let sweep = raw
+            .sweep
+            .as_ref()
+            .and_then(|r| self.sweep(r, &nominal, &cases, &fins, &sections, duty.as_ref()));
         Some(Scenario {
             name: raw.name.clone(),
             description: raw.description.clone(),
@@ -656,6 +662,7 @@ impl Validator {
             limits,
             duty,
             plan,
+            sweep,
         })
     }
 }
