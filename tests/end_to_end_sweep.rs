@@ -182,6 +182,19 @@ fn a_bad_sweep_block_names_file_line_and_field() {
         err.contains("sweep.inputs.mass") && err.contains("min and max"),
         "{err}"
     );
+    // A start position whose draws reach the magnets (the zone starts at 20 m) is refused.
+    let pos = SMALL.replace(
+        "    mass: {",
+        "    position: { distribution: uniform, min: 14 m, max: 25 m }\n    mass: {",
+    );
+    let s = write(dir.path(), "pos.yaml", &demo_with(&pos));
+    let o = eddyzone(&["sweep", s.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("sweep.inputs.position") && err.contains("over section"),
+        "{err}"
+    );
     // Unbounded work is refused up front.
     let big = SMALL.replace("samples: 40", "samples: 5000000");
     let s = write(dir.path(), "big.yaml", &demo_with(&big));
@@ -291,4 +304,32 @@ fn the_sweep_block_writes_back() {
     );
     let demo = eddyzone::scenario::load(&root().join("scenarios/coaster-sweep.yaml")).unwrap();
     eddyzone::scenario::write::to_yaml(&demo).unwrap();
+}
+
+/// The force factor multiplies every section force: since the layer force goes as Br²
+/// (Faraday–Lenz: induced current ∝ B, force ∝ current × B), a case with factor 0.81 runs as the
+/// same case with every remanence × 0.9. Tolerance 1e-6 relative on the exit speed (the two use
+/// different force tables: interpolation error only).
+#[test]
+fn force_factor_is_a_remanence_squared() {
+    let s = scenario_with(SMALL);
+    let mut a = s.clone();
+    a.sweep = None;
+    a.cases.retain(|c| c.name == "full");
+    let mut b = a.clone();
+    a.cases[0].force_factor = 0.81;
+    for sec in &mut b.sections {
+        if let eddyzone::scenario::ForceSource::Model(d) = &mut sec.force {
+            d.remanence_t *= 0.9;
+        }
+    }
+    let run = |s: Scenario| Study::new(s).unwrap().run(&Default::default()).unwrap();
+    let (ra, rb) = (run(a.clone()), run(b));
+    let (va, vb) = (ra[0].exit_speed_m_s.unwrap(), rb[0].exit_speed_m_s.unwrap());
+    assert!(((va - vb) / vb).abs() < 1e-6, "{va} vs {vb}");
+    // And it does act: the weaker brake lets the train out faster than factor 1.
+    let mut one = a;
+    one.cases[0].force_factor = 1.0;
+    let v1 = run(one)[0].exit_speed_m_s.unwrap();
+    assert!(va > v1 + 0.1, "{va} vs {v1}");
 }
