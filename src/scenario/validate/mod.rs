@@ -6,6 +6,7 @@
 //! (materials, fins, repeats), `sections`, `track`, `cases` (cases and generation), `settings`
 //! (solver, rider), `limits`, `duty`, `plan`. Defaults come from [`super::defaults`].
 
+mod budget;
 mod cases;
 mod duty;
 mod limits;
@@ -454,7 +455,25 @@ impl Validator {
         }
         let materials = self.materials(&raw.materials);
         let mass_kg = self.positive(&raw.vehicle.mass, Kind::Mass, "vehicle.mass");
-        let length_m = self.positive(&raw.vehicle.length, Kind::Length, "vehicle.length");
+        let length_m = self
+            .positive(&raw.vehicle.length, Kind::Length, "vehicle.length")
+            .and_then(|l| {
+                if l > super::bounds::MAX_VEHICLE_LENGTH_M {
+                    self.at(
+                        &raw.vehicle.length.referenced,
+                        "vehicle.length",
+                        format!(
+                            "{} m is not plausible: a vehicle braked by one zone is shorter than \
+                             {} m (the whole train counts; longer ones take minutes to clear)",
+                            show(l),
+                            super::bounds::MAX_VEHICLE_LENGTH_M
+                        ),
+                    );
+                    None
+                } else {
+                    Some(l)
+                }
+            });
         let vloc = loc(&raw.vehicle.mass.referenced);
 
         let track_fins = raw.track.as_ref().and_then(|t| t.fins.as_ref());
@@ -664,104 +683,6 @@ impl Validator {
             plan,
             sweep,
         })
-    }
-}
-
-impl Validator {
-    /// Refuses, before any work starts, a scenario that asks for more than the stated budgets of
-    /// [`super::bounds`], naming the field that drives the work and the numbers.
-    fn work_budget(
-        &mut self,
-        raw: &RawScenario,
-        cases: &[Case],
-        fins: &[Fin],
-        sections: &[Section],
-        duty: Option<&Duty>,
-    ) {
-        use super::bounds::{MAX_CASES, MAX_CASE_PAIRS, MAX_HEAT_CELLS, MAX_PASSES};
-        let cases_near = raw
-            .cases
-            .as_ref()
-            .and_then(|c| c.first())
-            .and_then(|c| loc(&c.name.referenced));
-        if cases.len() > MAX_CASES {
-            self.push(
-                cases_near,
-                "generate",
-                format!(
-                    "{} cases (listed and generated): above the {MAX_CASES}-case budget; generate \
-                     fewer (e.g. N−1 of fewer cases, fewer corner factors)",
-                    cases.len()
-                ),
-            );
-            return;
-        }
-        let pairs = |c: &Case| {
-            fins.iter()
-                .map(|f| {
-                    sections
-                        .iter()
-                        .enumerate()
-                        .filter(|(k, s)| s.lane == f.lane && !c.disabled.contains(k))
-                        .count()
-                })
-                .sum::<usize>()
-        };
-        let case_pairs: usize = cases.iter().map(pairs).sum();
-        if case_pairs > MAX_CASE_PAIRS {
-            self.push(
-                cases_near,
-                "sections",
-                format!(
-                    "{} fins × {} sections over {} cases is {case_pairs} fin–magnet pairs to \
-                     integrate: above the {MAX_CASE_PAIRS}-pair budget; use fewer copies or cases",
-                    fins.len(),
-                    sections.len(),
-                    cases.len()
-                ),
-            );
-        }
-        let cells: f64 = fins
-            .iter()
-            .filter(|f| matches!(f.mount, Mount::Track { .. }))
-            .map(|f| (f.length_m / defaults::HEAT_CELL_M).ceil())
-            .sum();
-        if cells > MAX_HEAT_CELLS as f64 {
-            self.push(
-                None,
-                "track.fins",
-                format!(
-                    "{cells} heat cells of {} cm along the track fins: above the \
-                     {MAX_HEAT_CELLS}-cell budget; shorten the fins",
-                    defaults::HEAT_CELL_M * 100.0
-                ),
-            );
-        }
-        if let Some(d) = duty {
-            let per_case = match d.cycles {
-                Cycles::Count(n) => n,
-                Cycles::UntilSteady { max_cycles } => max_cycles,
-            } as usize;
-            let passes = per_case.saturating_mul(cases.len());
-            if passes > MAX_PASSES {
-                let near = raw.duty.as_ref().and_then(|d| {
-                    d.cycles
-                        .as_ref()
-                        .map(|c| &c.referenced)
-                        .or(d.max_cycles.as_ref().map(|m| &m.referenced))
-                        .and_then(loc)
-                });
-                self.push(
-                    near,
-                    "duty.cycles",
-                    format!(
-                        "up to {per_case} dispatches × {} cases is {passes} passes: above the \
-                         {MAX_PASSES}-pass budget; lower the cycles (or max_cycles)",
-                        cases.len()
-                    ),
-                );
-            }
-        }
     }
 }
 
