@@ -26,6 +26,8 @@ pub mod report;
 pub mod scenario;
 /// One scenario's force tables, runs, judged temperatures and verdict: the pipeline every command uses.
 pub mod study;
+/// Tolerance and uncertainty studies: samples of a scenario's `sweep:` block and their statistics.
+pub mod sweep;
 /// Fin heating over a pass and over a duty cycle of dispatches.
 pub mod thermal;
 /// "value unit" strings to SI, one quantity kind per field.

@@ -4,7 +4,9 @@
 use eddyzone::plan::PlanError;
 use eddyzone::report::OutputError;
 use eddyzone::scenario::validate::ScenarioError;
+use eddyzone::scenario::write::WriteError;
 use eddyzone::study::StudyError;
+use eddyzone::sweep::SweepError;
 
 /// Exit code: everything passed.
 pub const EXIT_OK: i32 = 0;
@@ -35,6 +37,9 @@ pub enum Error {
     /// An output could not be made or written.
     #[error(transparent)]
     Output(#[from] OutputError),
+    /// A sweep could not complete.
+    #[error(transparent)]
+    Sweep(#[from] SweepError),
 }
 
 impl From<serde_json::Error> for Error {
@@ -62,5 +67,12 @@ pub fn exit_code(e: &Error) -> i32 {
         | Error::Study(StudyError::SampleBudget { .. }) => EXIT_BAD_INPUT,
         Error::Study(_) | Error::Plan(PlanError::Study(_)) => EXIT_COMPUTATION,
         Error::Output(_) => EXIT_OUTPUT,
+        Error::Sweep(SweepError::NoSweep | SweepError::NoCase(_) | SweepError::Reread(_)) => {
+            EXIT_BAD_INPUT
+        }
+        // A sample that is no valid scenario: the sweep block's draws reach outside the inputs.
+        Error::Sweep(SweepError::Write(WriteError::Reread(_))) => EXIT_BAD_INPUT,
+        Error::Sweep(SweepError::Write(_)) => EXIT_OUTPUT,
+        Error::Sweep(SweepError::Study(_) | SweepError::NoSamples) => EXIT_COMPUTATION,
     }
 }

@@ -10,6 +10,7 @@ pub mod plan;
 pub mod progress;
 pub mod report;
 pub mod run;
+pub mod sweep;
 
 use clap::{Parser, Subcommand};
 use eddyzone::scenario::{self, Scenario};
@@ -40,6 +41,8 @@ pub enum Command {
     Plan(plan::PlanArgs),
     /// Fin heating over a pass and over the duty cycle.
     Heat(heat::HeatArgs),
+    /// Tolerance and uncertainty study of the `sweep:` block (exit 1 when a sample fails).
+    Sweep(sweep::SweepArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -51,6 +54,7 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Report(a) => report::execute(&a),
         Command::Plan(a) => plan::execute(&a),
         Command::Heat(a) => heat::execute(&a),
+        Command::Sweep(a) => sweep::execute(&a),
     }
 }
 

@@ -120,6 +120,23 @@ pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     1.25 * (top * top + 2.0 * G * drop).sqrt() + 5.0
 }
 
+/// The speed the force tables of a scenario reach: [`speed_bound_m_s`] times the largest
+/// conductivity ratio σ(T)/σ20 of any case's fin temperature (a cold fin reads the table at
+/// v·σ(T)/σ20).
+pub fn table_speed_m_s(scenario: &Scenario) -> f64 {
+    let max_ratio = scenario
+        .cases
+        .iter()
+        .flat_map(|c| {
+            scenario
+                .fins
+                .iter()
+                .map(move |f| 1.0 / f.material.resistivity_ratio(c.fin_temp_c))
+        })
+        .fold(1.0, f64::max);
+    speed_bound_m_s(scenario) * max_ratio
+}
+
 /// Force tables of distinct designs, shared across the studies of many scenarios (the planner's
 /// candidates, a sweep's samples). A design is the fin's and magnets' geometry, remanence and
 /// conductivity; a table is reused when it reaches the speed a scenario needs.
@@ -189,17 +206,18 @@ impl BrakeTables {
 
     /// Like [`BrakeTables::build`], taking tables from `cache` and adding the ones it builds.
     pub fn build_cached(scenario: &Scenario, cache: &TableCache) -> Result<Self, DynamicsError> {
-        let max_ratio = scenario
-            .cases
-            .iter()
-            .flat_map(|c| {
-                scenario
-                    .fins
-                    .iter()
-                    .map(move |f| 1.0 / f.material.resistivity_ratio(c.fin_temp_c))
-            })
-            .fold(1.0, f64::max);
-        let vmax = speed_bound_m_s(scenario) * max_ratio;
+        Self::build_reaching(scenario, cache, 0.0)
+    }
+
+    /// Like [`BrakeTables::build_cached`], with every table reaching at least
+    /// `min_table_speed_m_s` (a sweep builds all its samples' tables to one common speed, so a
+    /// sample's forces do not depend on which sample filled the cache first).
+    pub fn build_reaching(
+        scenario: &Scenario,
+        cache: &TableCache,
+        min_table_speed_m_s: f64,
+    ) -> Result<Self, DynamicsError> {
+        let vmax = table_speed_m_s(scenario).max(min_table_speed_m_s);
         let mut pairs = Vec::new();
         for (fi, fin) in scenario.fins.iter().enumerate() {
             for (si, sec) in scenario.sections.iter().enumerate() {
@@ -302,6 +320,8 @@ pub struct ActivePair {
     pub fin_alpha_per_k: f64,
     /// Fin resistivity ratio ρ(T_ref)/ρ(20 °C) of the law's reference (1 for tables).
     pub reference_resistivity_ratio: f64,
+    /// The case's model force factor: a plain multiplier on the force (1 for the model as it is).
+    pub force_factor: f64,
 }
 
 impl ActivePair {
@@ -312,7 +332,7 @@ impl ActivePair {
         let rho_ratio =
             (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
         let sigma_ratio = self.reference_resistivity_ratio / rho_ratio;
-        match &self.spec.law {
+        let per_m = match &self.spec.law {
             PairLaw::Table {
                 table,
                 active_height_m,
@@ -326,7 +346,8 @@ impl ActivePair {
                     * self.remanence_ratio
                     * curve.force_per_m_n(speed_m_s * sigma_ratio)
             }
-        }
+        };
+        self.force_factor * per_m
     }
 
     /// Whether a measured law covers this speed (always true for tables).
@@ -376,6 +397,7 @@ pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> V
                 remanence_ratio: br,
                 fin_alpha_per_k: alpha,
                 reference_resistivity_ratio: fin_ref_rho,
+                force_factor: case.force_factor,
             }
         })
         .collect()

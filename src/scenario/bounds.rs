@@ -66,3 +66,11 @@ pub const MAX_CASE_PAIRS: usize = 2_000_000;
 pub const MAX_HEAT_CELLS: usize = 2_000_000;
 /// Most passes of the duty cycle over all cases (cases × cycles).
 pub const MAX_PASSES: usize = 200_000;
+/// Most samples of one sweep (each is a full case: at ~1 ms a case, a few minutes on two cores).
+pub const MAX_SWEEP_SAMPLES: usize = 1_000_000;
+/// Most sampled variables of a sweep (the dimensions of the Sobol sequence used).
+pub const MAX_SWEEP_VARIABLES: usize = 256;
+/// Most fin × magnet pairs summed over a sweep's samples.
+pub const MAX_SWEEP_PAIRS: usize = 50_000_000;
+/// Most force tables a sweep may build (each sampled design: ~20 ms a table, ~4 min on two cores).
+pub const MAX_SWEEP_TABLES: usize = 20_000;

@@ -132,6 +132,7 @@ mod tests {
             magnet_temp_c: 20.0,
             disabled: vec![],
             resistance: Resistance::default(),
+            force_factor: 1.0,
         }
     }
 

@@ -91,3 +91,7 @@ pub const PLAN_MIN_SPACING_M: f64 = 0.0;
 
 /// Source text of a custom material without `source:`.
 pub const MATERIAL_SOURCE: &str = "scenario input";
+
+/// Model force factor of a case without `force_factor`: the force model as it is (project
+/// convention).
+pub const FORCE_FACTOR: f64 = 1.0;

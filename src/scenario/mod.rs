@@ -6,6 +6,7 @@ pub mod bounds;
 pub mod cases;
 pub mod defaults;
 pub mod raw;
+pub mod sweep;
 pub mod validate;
 pub mod write;
 
@@ -373,6 +374,9 @@ pub struct Case {
     pub disabled: Vec<usize>,
     /// Resistance.
     pub resistance: Resistance,
+    /// Model force factor: every section's force on this case is multiplied by it (default
+    /// [`defaults::FORCE_FACTOR`]; a sweep samples it to carry the force model's uncertainty).
+    pub force_factor: f64,
 }
 
 /// Integrator settings.
@@ -655,6 +659,8 @@ pub struct Scenario {
     pub duty: Option<Duty>,
     /// Layout search.
     pub plan: Option<PlanSpec>,
+    /// Tolerance and uncertainty study.
+    pub sweep: Option<sweep::Sweep>,
 }
 
 impl Scenario {

@@ -148,6 +148,9 @@ pub struct RawScenario {
     /// Layout search.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub plan: Option<RawPlan>,
+    /// Tolerance and uncertainty study.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sweep: Option<RawSweep>,
 }
 
 /// A custom material.
@@ -380,6 +383,9 @@ pub struct RawCase {
     /// Resistance override (fields given replace the nominal ones).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub resistance: Option<RawResistance>,
+    /// Model force factor: every section force of this case times this (default 1).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub force_factor: Option<Q>,
 }
 
 /// Integrator settings.
@@ -677,4 +683,87 @@ pub struct RawPlan {
     /// Grid on which module starts are placed (default: module length + spacing).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub slot_pitch: Option<Q>,
+}
+
+/// A tolerance and uncertainty study of one case.
+#[derive(Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawSweep {
+    /// The case the samples vary (default: the nominal case).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub case: Option<Spanned<String>>,
+    /// `monte_carlo` (the default), `latin_hypercube`, `sobol` or `factorial`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub method: Option<Spanned<String>>,
+    /// Number of samples (not with `factorial`, which takes every combination).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub samples: Option<Spanned<u64>>,
+    /// Seed of the random and scrambled designs (default 0).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub seed: Option<Spanned<u64>>,
+    /// The uncertain inputs.
+    pub inputs: RawSweepInputs,
+}
+
+/// The uncertain inputs of a sweep, each optional.
+#[derive(Debug, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawSweepInputs {
+    /// Vehicle mass.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mass: Option<RawUncertain>,
+    /// Start speed.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub speed: Option<RawUncertain>,
+    /// Start position of the vehicle front.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub position: Option<RawUncertain>,
+    /// Clearance of the magnet sections.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub clearance: Option<RawUncertain>,
+    /// Remanence (at 20 °C) of the magnet sections.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub remanence: Option<RawUncertain>,
+    /// Conductivity (at 20 °C) of the fins.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fin_conductivity: Option<RawUncertain>,
+    /// Fin temperature before the pass.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fin_temp: Option<RawUncertain>,
+    /// Magnet temperature.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub magnet_temp: Option<RawUncertain>,
+    /// Model force factor.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub force_factor: Option<RawUncertain>,
+}
+
+/// One uncertain input: its distribution and, for sections and fins, its scope.
+#[derive(Debug, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawUncertain {
+    /// `normal`, `uniform`, `triangular` or `discrete`.
+    pub distribution: Spanned<String>,
+    /// Mean (normal).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mean: Option<Q>,
+    /// Standard deviation (normal).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub std: Option<Q>,
+    /// Lower end (uniform, triangular) or truncation bound (normal).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub min: Option<Q>,
+    /// Most likely value (triangular).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub mode: Option<Q>,
+    /// Upper end (uniform, triangular) or truncation bound (normal).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub max: Option<Q>,
+    /// The equally likely values (discrete).
+    #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    pub values: Option<Vec<Q>>,
+    /// `all` (one draw for every section or fin, the default) or `each` (one per section or
+    /// fin); only for clearance, remanence and fin conductivity.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub scope: Option<Spanned<String>>,
 }

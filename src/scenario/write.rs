@@ -107,6 +107,7 @@ pub fn first_difference(a: &Scenario, b: &Scenario) -> Option<&'static str> {
         ("limits", a.limits == b.limits),
         ("duty", a.duty == b.duty),
         ("plan", a.plan == b.plan),
+        ("sweep", a.sweep == b.sweep),
     ];
     same.iter().find(|(_, eq)| !eq).map(|(f, _)| *f)
 }
@@ -202,6 +203,7 @@ impl Writer<'_> {
             generate: self.generate(s),
             duty: s.duty.as_ref().map(|d| self.duty(d)),
             plan: s.plan.as_ref().map(|p| self.plan(p)),
+            sweep: s.sweep.as_ref().map(|w| self.sweep(w)),
         }
     }
 
@@ -436,6 +438,8 @@ impl Writer<'_> {
                     )),
                     disabled: (!disabled.is_empty()).then_some(disabled),
                     resistance: Some(self.resistance(&c.resistance, &format!("{p}.resistance"))),
+                    force_factor: (c.force_factor != defaults::FORCE_FACTOR)
+                        .then(|| self.q(&format!("{p}.force_factor"), Kind::Ratio, c.force_factor)),
                 }
             })
             .collect()
@@ -689,6 +693,93 @@ impl Writer<'_> {
                 .collect(),
             min_spacing: Some(self.q("plan.min_spacing", Kind::Length, p.min_spacing_m)),
             slot_pitch: Some(self.q("plan.slot_pitch", Kind::Length, p.slot_pitch_m)),
+        }
+    }
+}
+
+impl Writer<'_> {
+    /// The `sweep:` block, every value explicit.
+    fn sweep(&self, w: &sweep::Sweep) -> RawSweep {
+        use sweep::{Distribution as D, SamplingMethod, Scope, SweepInput as I};
+        let mut inputs = RawSweepInputs::default();
+        for u in &w.inputs {
+            let p = format!("sweep.inputs.{}", u.input.key());
+            let k = u.input.kind();
+            let q = |key: &str, x: f64| self.q(&format!("{p}.{key}"), k, x);
+            let o = |key: &str, x: Option<f64>| x.map(|x| q(key, x));
+            let (mean, std, min, mode, max, values) = match &u.distribution {
+                D::Normal {
+                    mean,
+                    std,
+                    min,
+                    max,
+                } => (
+                    Some(q("mean", *mean)),
+                    Some(q("std", *std)),
+                    o("min", *min),
+                    None,
+                    o("max", *max),
+                    None,
+                ),
+                D::Uniform { min, max } => (
+                    None,
+                    None,
+                    Some(q("min", *min)),
+                    None,
+                    Some(q("max", *max)),
+                    None,
+                ),
+                D::Triangular { min, mode, max } => (
+                    None,
+                    None,
+                    Some(q("min", *min)),
+                    Some(q("mode", *mode)),
+                    Some(q("max", *max)),
+                    None,
+                ),
+                D::Discrete { values } => {
+                    let v = values
+                        .iter()
+                        .enumerate()
+                        .map(|(i, x)| q(&format!("values[{i}]"), *x))
+                        .collect();
+                    (None, None, None, None, None, Some(v))
+                }
+            };
+            let raw = RawUncertain {
+                distribution: spanned(u.distribution.key().to_string()),
+                mean,
+                std,
+                min,
+                mode,
+                max,
+                values,
+                scope: u.input.per_element().then(|| {
+                    spanned(match u.scope {
+                        Scope::All => "all".to_string(),
+                        Scope::Each => "each".to_string(),
+                    })
+                }),
+            };
+            let slot = match u.input {
+                I::Mass => &mut inputs.mass,
+                I::Speed => &mut inputs.speed,
+                I::Position => &mut inputs.position,
+                I::Clearance => &mut inputs.clearance,
+                I::Remanence => &mut inputs.remanence,
+                I::FinConductivity => &mut inputs.fin_conductivity,
+                I::FinTemp => &mut inputs.fin_temp,
+                I::MagnetTemp => &mut inputs.magnet_temp,
+                I::ForceFactor => &mut inputs.force_factor,
+            };
+            *slot = Some(raw);
+        }
+        RawSweep {
+            case: Some(spanned(w.case.clone())),
+            method: Some(spanned(w.method.key().to_string())),
+            samples: (w.method != SamplingMethod::Factorial).then(|| spanned(w.samples as u64)),
+            seed: Some(spanned(w.seed)),
+            inputs,
         }
     }
 }

@@ -201,6 +201,17 @@ impl Study {
         Ok(Self { scenario, tables })
     }
 
+    /// Like [`Study::with_cache`], with every force table reaching at least
+    /// `min_table_speed_m_s` (see [`BrakeTables::build_reaching`]).
+    pub fn with_cache_reaching(
+        scenario: Scenario,
+        cache: &TableCache,
+        min_table_speed_m_s: f64,
+    ) -> Result<Self, StudyError> {
+        let tables = BrakeTables::build_reaching(&scenario, cache, min_table_speed_m_s)?;
+        Ok(Self { scenario, tables })
+    }
+
     /// The scenario.
     pub fn scenario(&self) -> &Scenario {
         &self.scenario

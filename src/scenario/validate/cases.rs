@@ -169,6 +169,16 @@ impl Validator {
             }
             disabled.sort_unstable();
             disabled.dedup();
+            let force_factor = match &c.force_factor {
+                Some(q) => self.q_where(
+                    q,
+                    Kind::Ratio,
+                    &format!("{p}.force_factor"),
+                    |f| f > 0.0 && f <= 10.0,
+                    "must lie in (0, 10]",
+                ),
+                None => Some(nominal.force_factor),
+            };
             if let (
                 Some(mass_kg),
                 Some(start_position_m),
@@ -176,7 +186,8 @@ impl Validator {
                 Some(fin_temp_c),
                 Some(magnet_temp_c),
                 Some(resistance),
-            ) = (mass, pos, speed, fin, mag, res)
+                Some(force_factor),
+            ) = (mass, pos, speed, fin, mag, res, force_factor)
             {
                 out.push(Case {
                     name: c.name.value.clone(),
@@ -193,6 +204,7 @@ impl Validator {
                     magnet_temp_c,
                     disabled,
                     resistance,
+                    force_factor,
                 });
             }
         }
@@ -346,25 +358,7 @@ impl Validator {
         fins: &[crate::scenario::Fin],
         sections: &[Section],
     ) {
-        let over = |c: &Case| -> Option<(String, String)> {
-            let x = c.start_position_m;
-            let span = |m: crate::scenario::Mount, len: f64| match m {
-                crate::scenario::Mount::Vehicle { offset_m } => (x - offset_m - len, x - offset_m),
-                crate::scenario::Mount::Track { start_m } => (start_m, start_m + len),
-            };
-            fins.iter().find_map(|f| {
-                let (a0, a1) = span(f.mount, f.length_m);
-                sections
-                    .iter()
-                    .enumerate()
-                    .filter(|(k, s)| s.lane == f.lane && !c.disabled.contains(k))
-                    .find(|(_, s)| {
-                        let (b0, b1) = span(s.mount, s.length_m);
-                        a1.min(b1) - a0.max(b0) > 0.0
-                    })
-                    .map(|(_, s)| (f.name.clone(), s.name.clone()))
-            })
-        };
+        let over = |c: &Case| first_overlap(c, fins, sections);
         let message = |c: &Case, fin: &str, sec: &str| {
             format!(
                 "the vehicle starts with fin '{fin}' already over section '{sec}' (front at {} m): \
@@ -410,4 +404,29 @@ impl Validator {
             }
         }
     }
+}
+
+/// The first fin and section of `c`'s lane that overlap at its start (fin name, section name).
+pub(super) fn first_overlap(
+    c: &Case,
+    fins: &[crate::scenario::Fin],
+    sections: &[Section],
+) -> Option<(String, String)> {
+    let x = c.start_position_m;
+    let span = |m: crate::scenario::Mount, len: f64| match m {
+        crate::scenario::Mount::Vehicle { offset_m } => (x - offset_m - len, x - offset_m),
+        crate::scenario::Mount::Track { start_m } => (start_m, start_m + len),
+    };
+    fins.iter().find_map(|f| {
+        let (a0, a1) = span(f.mount, f.length_m);
+        sections
+            .iter()
+            .enumerate()
+            .filter(|(k, s)| s.lane == f.lane && !c.disabled.contains(k))
+            .find(|(_, s)| {
+                let (b0, b1) = span(s.mount, s.length_m);
+                a1.min(b1) - a0.max(b0) > 0.0
+            })
+            .map(|(_, s)| (f.name.clone(), s.name.clone()))
+    })
 }
