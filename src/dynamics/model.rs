@@ -309,9 +309,36 @@ impl ActivePair {
     #[inline]
     pub fn force_per_m_n(&self, speed_m_s: f64, fin_temp_c: f64) -> f64 {
         // σ(T)/σ_ref = ρ_ref/ρ(T).
-        let rho_ratio =
-            (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
-        let sigma_ratio = self.reference_resistivity_ratio / rho_ratio;
+        let sigma_ratio = self.reference_resistivity_ratio / self.resistivity_ratio(fin_temp_c);
+        self.force_per_m_at_sigma(speed_m_s, sigma_ratio)
+    }
+
+    /// The fin's resistivity at `fin_temp_c` relative to 20 °C, ρ(T)/ρ20 = 1 + α(T − 20 °C)
+    /// (at least 0.05).
+    #[inline]
+    pub fn resistivity_ratio(&self, fin_temp_c: f64) -> f64 {
+        (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05)
+    }
+
+    /// Force per metre of overlap at `speed_m_s` for a fin whose resistivity is ρ20 divided by
+    /// `inverse_resistivity_ratio` (that is, 1/[`ActivePair::resistivity_ratio`], computed once
+    /// per cell of a temperature field), N/m.
+    #[inline]
+    pub fn force_per_m_at_inverse_resistivity(
+        &self,
+        speed_m_s: f64,
+        inverse_resistivity_ratio: f64,
+    ) -> f64 {
+        self.force_per_m_at_sigma(
+            speed_m_s,
+            self.reference_resistivity_ratio * inverse_resistivity_ratio,
+        )
+    }
+
+    /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
+    /// reference conductivity, N/m.
+    #[inline]
+    fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
         match &self.spec.law {
             PairLaw::Table {
                 table,
@@ -333,11 +360,10 @@ impl ActivePair {
     pub fn covers(&self, speed_m_s: f64, fin_temp_c: f64) -> bool {
         match &self.spec.law {
             PairLaw::Table { .. } => true,
-            PairLaw::Measured { curve, .. } => {
-                let rho_ratio =
-                    (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
-                curve.covers(speed_m_s.abs() * self.reference_resistivity_ratio / rho_ratio)
-            }
+            PairLaw::Measured { curve, .. } => curve.covers(
+                speed_m_s.abs() * self.reference_resistivity_ratio
+                    / self.resistivity_ratio(fin_temp_c),
+            ),
         }
     }
 }
