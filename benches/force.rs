@@ -1,6 +1,9 @@
 //! Benchmarks of the drag law: one direct model evaluation, one table evaluation, building a
 //! table, and the critical-speed search (through `DragModel::new`, which performs it).
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::physics::{BrakeGeometry, DragModel, ForceTable};
 use std::hint::black_box;

@@ -1,6 +1,9 @@
 //! One full case of each demo scenario and of the small benchmark case (compute only: tables
 //! built once outside the loop), and the table build itself. Run with `cargo bench --bench run`.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::dynamics::{simulate_case, BrakeTables, RunOptions};
 use std::hint::black_box;

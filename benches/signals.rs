@@ -2,6 +2,9 @@
 //! envelope (exact sweep against the dense 1 024-duration grid it replaces), the zero-phase and
 //! causal filters, onset and release. Run with `cargo bench --bench signals`.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::checks::envelope::{Envelope, DEFAULT_MAX_GRID_DURATIONS};
 use eddyzone::checks::features::{onset_release, DEFAULT_RATE_WINDOW_S};

@@ -251,6 +251,20 @@ pub enum UnitError {
     /// A temperature given as a bare number.
     #[error("a temperature needs a unit ('20 °C' or '293.15 K'): a plain number is ambiguous")]
     TemperatureWithoutUnit,
+    /// An acceleration or onset given as a bare number (g or SI would both be plausible).
+    #[error(
+        "{what} needs its unit: write '{value} {g}' or '{value} {si}' (a plain number could be either)"
+    )]
+    AccelerationWithoutUnit {
+        /// "an acceleration" or "an onset".
+        what: &'static str,
+        /// The number as given.
+        value: f64,
+        /// The unit in g.
+        g: &'static str,
+        /// The SI unit.
+        si: &'static str,
+    },
 }
 
 /// Normalises a unit spelling: spaces and a few look-alike characters removed.
@@ -297,6 +311,16 @@ fn split_value(text: &str) -> Option<(f64, String)> {
 pub fn from_number(kind: Kind, value: f64) -> Result<f64, UnitError> {
     if kind == Kind::Temperature {
         return Err(UnitError::TemperatureWithoutUnit);
+    }
+    // Limits in the trade are written in g, the model works in SI: a bare number is refused
+    // rather than guessed.
+    let unit_required = match kind {
+        Kind::Acceleration => Some(("an acceleration", "g", "m/s^2")),
+        Kind::Jerk => Some(("an onset", "g/s", "m/s^3")),
+        _ => None,
+    };
+    if let Some((what, g, si)) = unit_required {
+        return Err(UnitError::AccelerationWithoutUnit { what, value, g, si });
     }
     if !value.is_finite() {
         return Err(UnitError::NotFinite {

@@ -1,6 +1,9 @@
 //! End-to-end runs of the real binary in a temporary folder: every shipped scenario through
 //! `curve` and `run`, and each class of bad input giving exit code 2 with the field named.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 

@@ -2,6 +2,9 @@
 //! light cases (exit 1, with the failing check and case named), and bad limits (exit 2 with the
 //! field path).
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use std::path::PathBuf;
 use std::process::{Command, Output};
 

@@ -2,6 +2,9 @@
 //! documented keys, the profile folder holds the run and fin files, and a bad case name is a usage
 //! error (exit code 2).
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use std::path::PathBuf;
 use std::process::Command;
 

@@ -5,6 +5,9 @@
 //! The heating results (figures, the Heating section, summary.json "heat") on the coaster
 //! (vehicle fins) and the tower (track fins).
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 

@@ -16,6 +16,9 @@
 //! S(D) is a sample value, i.e. the length of a component of {y ≥ y_k} or of {y > y_k}
 //! (the two limits of W at the level y_k). Every such length is a candidate below.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use approx::assert_relative_eq;
 use eddyzone::checks::envelope::{sustained_curve, sustained_level, Envelope};
 use eddyzone::checks::filter::UniformSignal;

@@ -7,6 +7,9 @@
 //! "Discrete-Time Signal Processing", 3rd ed., 2010, §7.2); and analytic sustained levels of
 //! synthetic signals read as piecewise linear between samples.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use approx::assert_relative_eq;
 use eddyzone::checks::envelope::{
     sustained_curve, sustained_curve_below, sustained_level, sustained_level_below, Envelope,

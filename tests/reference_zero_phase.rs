@@ -8,6 +8,9 @@
 //! amplifiers", 1930; A. V. Oppenheim & R. W. Schafer, "Discrete-Time Signal Processing", 3rd
 //! ed., 2010, §7.2); and analytic derivatives of synthetic signals.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use eddyzone::checks::features::{onset_release, raw_extremes, uniform_extremes};
 use eddyzone::checks::filter::{resample_uniform, Butterworth, SignalError, UniformSignal};
 use eddyzone::checks::zero_phase::{Padding, Phase, RideFilter, ZeroPhaseButterworth};

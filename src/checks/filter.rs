@@ -18,11 +18,13 @@ use num_complex::Complex64;
 use std::f64::consts::PI;
 use thiserror::Error;
 
-/// Default number of poles for ride-acceleration filtering (common practice; from memory).
-pub const DEFAULT_ORDER: usize = 4;
+/// Default number of poles for ride-acceleration filtering: the scenario default
+/// [`crate::scenario::defaults::FILTER_ORDER`] (common practice; from memory).
+pub const DEFAULT_ORDER: usize = crate::scenario::defaults::FILTER_ORDER;
 
-/// Default corner frequency for ride-acceleration filtering, Hz (common practice; from memory).
-pub const DEFAULT_CORNER_HZ: f64 = 5.0;
+/// Default corner frequency for ride-acceleration filtering, Hz: the scenario default
+/// [`crate::scenario::defaults::FILTER_CORNER_HZ`] (common practice; from memory).
+pub const DEFAULT_CORNER_HZ: f64 = crate::scenario::defaults::FILTER_CORNER_HZ;
 
 /// Highest filter order accepted by [`Butterworth::lowpass`].
 pub const MAX_ORDER: usize = 8;
@@ -380,6 +382,22 @@ pub struct Butterworth {
     sections: Vec<Section>,
 }
 
+/// Checks a low-pass design's rates: the sample rate finite and positive, the corner finite,
+/// positive and below the Nyquist frequency `sample_rate_hz / 2`.
+pub(crate) fn check_corner(corner_hz: f64, sample_rate_hz: f64) -> Result<(), SignalError> {
+    if !(sample_rate_hz.is_finite() && sample_rate_hz > 0.0) {
+        return Err(SignalError::InvalidSampleRate { sample_rate_hz });
+    }
+    let nyquist_hz = 0.5 * sample_rate_hz;
+    if !(corner_hz.is_finite() && corner_hz > 0.0 && corner_hz < nyquist_hz) {
+        return Err(SignalError::InvalidCorner {
+            corner_hz,
+            nyquist_hz,
+        });
+    }
+    Ok(())
+}
+
 impl Butterworth {
     /// Designs an `order`-pole low-pass filter with its −3 dB corner at `corner_hz` for a signal
     /// sampled at `sample_rate_hz`.
@@ -393,16 +411,7 @@ impl Butterworth {
                 max: MAX_ORDER,
             });
         }
-        if !(sample_rate_hz.is_finite() && sample_rate_hz > 0.0) {
-            return Err(SignalError::InvalidSampleRate { sample_rate_hz });
-        }
-        let nyquist_hz = 0.5 * sample_rate_hz;
-        if !(corner_hz.is_finite() && corner_hz > 0.0 && corner_hz < nyquist_hz) {
-            return Err(SignalError::InvalidCorner {
-                corner_hz,
-                nyquist_hz,
-            });
-        }
+        check_corner(corner_hz, sample_rate_hz)?;
         let fs2 = 2.0 * sample_rate_hz;
         // Prewarped analogue corner, rad/s.
         let warped_rad_s = fs2 * (PI * corner_hz / sample_rate_hz).tan();

@@ -2,9 +2,13 @@
 //! speed, duration, stall and rollback, fin and magnet temperatures.
 
 use super::envelope::Envelope;
-use super::rider::rider_signals;
+use super::features::onset_release;
+use super::rider::{rider_signals, RiderSignalError, RiderSignals};
+
+/// The felt acceleration of a run, or why it could not be formed.
+type Signals = Result<RiderSignals, RiderSignalError>;
 use crate::dynamics::{Outcome, RunResult};
-use crate::scenario::{Case, Scenario};
+use crate::scenario::{Case, RateSignal, Scenario};
 use crate::VERSION;
 use serde::Serialize;
 
@@ -117,6 +121,16 @@ impl Verdict {
 }
 
 impl CheckRow {
+    /// The row in a few words for a list of failures: "peak_min.x (margin -0.120 g)" or
+    /// "exit_speed_min (not evaluated: stalled in the zone)".
+    pub fn summary(&self) -> String {
+        match (self.margin, &self.not_evaluated) {
+            (Some(m), _) => format!("{} (margin {m:.3} {})", self.key(), self.unit),
+            (None, Some(n)) => format!("{} (not evaluated: {n})", self.key()),
+            (None, None) => self.key(),
+        }
+    }
+
     /// Check name with its axis ("peak_min.x"), the key rows are matched by.
     pub fn key(&self) -> String {
         match &self.axis {
@@ -201,9 +215,8 @@ pub struct CaseTemperatures {
 const SIDES: [(&str, bool); 2] = [("positive", false), ("negative", true)];
 
 /// Felt-acceleration checks of one case: peaks and envelopes on every axis with a limit.
-fn acceleration_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckRow>) {
+fn acceleration_rows(scenario: &Scenario, signals: &Signals, rows: &mut Vec<CheckRow>) {
     let lim = &scenario.limits;
-    let signals = rider_signals(run, &scenario.rider);
     for (k, name) in ["x", "y", "z"].iter().enumerate() {
         let axis = Some(*name);
         let peak = lim.peak[k];
@@ -243,7 +256,7 @@ fn acceleration_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckR
             };
             let Some(pts) = pts else { continue };
             let check = format!("envelope_{side}");
-            let result = Envelope::new(pts.clone()).and_then(|env| match &signals {
+            let result = Envelope::new(pts.clone()).and_then(|env| match signals {
                 Err(e) => Ok(Err(e.to_string())),
                 Ok(sig) => {
                     let u = if negative {
@@ -267,6 +280,82 @@ fn acceleration_rows(scenario: &Scenario, run: &RunResult, rows: &mut Vec<CheckR
                 }
                 Ok(Err(reason)) => rows.push(unevaluated(&check, axis, None, "g", reason, false)),
                 Err(e) => rows.push(unevaluated(&check, axis, None, "g", e.to_string(), false)),
+            }
+        }
+    }
+}
+
+/// Onset (rate of rise of the felt deceleration in the direction of travel) and release (rate at
+/// which it falls away), g/s, by a central difference over `rider.rates.window` on the filtered
+/// (default) or raw felt acceleration.
+fn rate_rows(scenario: &Scenario, signals: &Signals, rows: &mut Vec<CheckRow>) {
+    let lim = &scenario.limits;
+    let wanted = [("onset", lim.onset_g_s), ("release", lim.release_g_s)];
+    if wanted.iter().all(|w| w.1.is_none()) {
+        return;
+    }
+    let rates = &scenario.rider.rates;
+    let measured = signals.as_ref().map_err(|e| e.to_string()).and_then(|sig| {
+        let u = match rates.signal {
+            RateSignal::Filtered => &sig.braking_filtered,
+            RateSignal::Raw => &sig.braking_raw,
+        };
+        onset_release(u, rates.window_s).map_err(|e| e.to_string())
+    });
+    for (check, limit) in wanted {
+        let Some(limit) = limit else { continue };
+        match &measured {
+            Ok(m) => {
+                let r = if check == "onset" { m.onset } else { m.release };
+                rows.push(row(check, None, r.per_s, limit, limit - r.per_s, "g/s"));
+            }
+            Err(e) => rows.push(unevaluated(
+                check,
+                None,
+                Some(limit),
+                "g/s",
+                e.clone(),
+                false,
+            )),
+        }
+    }
+}
+
+/// Combined-axis limits: at every filtered sample (a₁/s₁)² + (a₂/s₂)² with each semi-axis on
+/// the side of its sign; the value is the square root of the largest (1 is the boundary).
+fn combined_rows(scenario: &Scenario, signals: &Signals, rows: &mut Vec<CheckRow>) {
+    let lim = &scenario.limits;
+    if lim.combined.is_empty() {
+        return;
+    }
+    for c in &lim.combined {
+        let axis = format!("{}+{}", c.axes[0].name(), c.axes[1].name());
+        match signals {
+            Err(e) => rows.push(unevaluated(
+                "combined",
+                Some(&axis),
+                Some(1.0),
+                "1",
+                e.to_string(),
+                false,
+            )),
+            Ok(sig) => {
+                let a = &sig.filtered[c.axes[0] as usize].values;
+                let b = &sig.filtered[c.axes[1] as usize].values;
+                let side = |v: f64, k: usize| {
+                    if v < 0.0 {
+                        c.semi_g[k][0]
+                    } else {
+                        c.semi_g[k][1]
+                    }
+                };
+                let worst = a
+                    .iter()
+                    .zip(b)
+                    .map(|(&x, &y)| (x / side(x, 0)).powi(2) + (y / side(y, 1)).powi(2))
+                    .fold(0.0, f64::max)
+                    .sqrt();
+                rows.push(row("combined", Some(&axis), worst, 1.0, 1.0 - worst, "1"));
             }
         }
     }
@@ -349,20 +438,10 @@ pub fn check_case(
     if run.reversed && run.outcome != Outcome::RolledBack && !lim.allow_rollback {
         rows.push(flag("rollback", false, None, "m/s"));
     }
-    acceleration_rows(scenario, run, &mut rows);
-    if let Some(limit) = lim.onset_g_s {
-        match run.peak_onset_g_s {
-            Some(onset) => rows.push(row("onset", None, onset, limit, limit - onset, "g/s")),
-            None => rows.push(unevaluated(
-                "onset",
-                None,
-                Some(limit),
-                "g/s",
-                "no samples in the zone",
-                false,
-            )),
-        }
-    }
+    let signals = rider_signals(run, &scenario.rider);
+    acceleration_rows(scenario, &signals, &mut rows);
+    combined_rows(scenario, &signals, &mut rows);
+    rate_rows(scenario, &signals, &mut rows);
     exit_speed_rows(scenario, run, &mut rows);
     if let Some(limit) = lim.max_duration_s {
         match run.time_in_zone_s {

@@ -9,10 +9,12 @@
 //! and braking while rolling back is +x (pressed into the seat back, "eyes back"); with the track
 //! along the spine z (a tower descending towards +s) braking while descending is +z (pressed into
 //! the seat) and braking while moving up is −z.
-use super::filter::{resample_uniform, Butterworth, SignalError, UniformSignal};
+use super::features::raw_extremes;
+use super::filter::{resample_uniform, SignalError, UniformSignal};
+use super::zero_phase::RideFilter;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::RunResult;
-use crate::scenario::{Axis, Rider};
+use crate::scenario::{defaults, Axis, Rider};
 use serde::Serialize;
 
 /// The felt acceleration of one run on the three rider axes, uniformly sampled, in g.
@@ -24,6 +26,13 @@ pub struct RiderSignals {
     pub filtered: [UniformSignal; 3],
     /// Whether a filter was applied.
     pub filter_applied: bool,
+    /// Extremes of the raw signals per axis over every sample of the run, events included
+    /// (the uniform resampling would miss a peak that sits on an event).
+    pub raw_extremes: [(f64, f64); 3],
+    /// Felt deceleration in the direction of travel, g (positive while braking), raw.
+    pub braking_raw: UniformSignal,
+    /// The same from the filtered felt acceleration.
+    pub braking_filtered: UniformSignal,
 }
 
 /// Peaks of one axis.
@@ -51,7 +60,7 @@ impl RiderSignals {
     /// Peaks per axis.
     pub fn peaks(&self) -> [AxisPeaks; 3] {
         std::array::from_fn(|i| {
-            let (rh, rl) = extremes(&self.raw[i]);
+            let (rh, rl) = self.raw_extremes[i];
             let (fh, fl) = extremes(&self.filtered[i]);
             AxisPeaks {
                 raw_max_g: rh,
@@ -104,6 +113,7 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Result<RiderSignals, Rid
     let mut t = Vec::with_capacity(run.samples.len());
     let mut along = Vec::with_capacity(run.samples.len());
     let mut normal = Vec::with_capacity(run.samples.len());
+    let mut dir = Vec::with_capacity(run.samples.len());
     for s in &run.samples {
         if t.last().is_some_and(|&l: &f64| s.t_s < l) {
             continue;
@@ -111,49 +121,74 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Result<RiderSignals, Rid
         t.push(s.t_s);
         along.push(felt_along_track_g(s, run.mass_kg));
         normal.push(s.cos_theta);
+        dir.push(if s.v_m_s < 0.0 { -1.0 } else { 1.0 });
     }
     if t.len() < 2 || t[t.len() - 1] <= t[0] {
         return Err(RiderSignalError::TooFewSamples);
     }
-    let rate = rider.filter.map(|f| f.sample_rate_hz).unwrap_or(1000.0);
+    let ea = raw_extremes(&t, &along)?;
+    let en = raw_extremes(&t, &normal)?;
+    let rate = rider
+        .filter
+        .map_or(defaults::FILTER_SAMPLE_RATE_HZ, |f| f.sample_rate_hz);
     let dt = 1.0 / rate;
     let along = resample_uniform(&t, &along, dt)?;
     let normal = resample_uniform(&t, &normal, dt)?;
+    // Direction of travel on the grid: the sign of the sample at or before each grid time.
+    let dir_u: Vec<f64> = (0..along.values.len())
+        .map(|k| {
+            let tk = along.t0_s + k as f64 * dt;
+            let i = t.partition_point(|&x| x <= tk).saturating_sub(1);
+            dir[i]
+        })
+        .collect();
+    let filter = match rider.filter {
+        Some(f) => Some(RideFilter::design(f.phase, f.order, f.corner_hz, rate)?),
+        None => None,
+    };
+    let along_f = match &filter {
+        Some(f) => f.filter_signal(&along)?,
+        None => along.clone(),
+    };
+    let normal_f = match &filter {
+        Some(f) => f.filter_signal(&normal)?,
+        None => normal.clone(),
+    };
+    let braking = |u: &UniformSignal| UniformSignal {
+        values: u.values.iter().zip(&dir_u).map(|(v, d)| -d * v).collect(),
+        ..u.clone()
+    };
+    let braking_raw = braking(&along);
+    let braking_filtered = braking(&along_f);
     let zero = UniformSignal {
-        dt_s: along.dt_s,
-        t0_s: along.t0_s,
         values: vec![0.0; along.values.len()],
+        ..along.clone()
     };
-    let (x, z) = match rider.track_axis {
-        Axis::X => (along, normal),
-        // Along the spine: braking while descending presses into the seat (+z); the normal part is fore–aft.
-        _ => (
-            normal,
-            UniformSignal {
-                values: along.values.iter().map(|v| -v).collect(),
-                ..along
-            },
+    let neg = |u: UniformSignal| UniformSignal {
+        values: u.values.iter().map(|v| -v).collect(),
+        ..u
+    };
+    let (raw, filtered, raw_extremes) = match rider.track_axis {
+        Axis::X => (
+            [along, zero.clone(), normal],
+            [along_f, zero, normal_f],
+            [(ea.max, ea.min), (0.0, 0.0), (en.max, en.min)],
         ),
-    };
-    let raw = [x, zero, z];
-    debug_assert!(raw.iter().all(|s| s.values.len() == raw[0].values.len()));
-    let (filtered, applied) = match rider.filter {
-        Some(f) => {
-            let b = Butterworth::lowpass(f.order, f.corner_hz, rate)?;
-            (
-                std::array::from_fn(|i| UniformSignal {
-                    values: b.filter(&raw[i].values),
-                    ..raw[i].clone()
-                }),
-                true,
-            )
-        }
-        None => (raw.clone(), false),
+        // Along the spine: braking while descending presses into the seat (+z); the normal
+        // part is fore–aft.
+        _ => (
+            [normal, zero.clone(), neg(along)],
+            [normal_f, zero, neg(along_f)],
+            [(en.max, en.min), (0.0, 0.0), (-ea.min, -ea.max)],
+        ),
     };
     Ok(RiderSignals {
         raw,
         filtered,
-        filter_applied: applied,
+        filter_applied: filter.is_some(),
+        raw_extremes,
+        braking_raw,
+        braking_filtered,
     })
 }
 
@@ -200,6 +235,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_min_g + 1.0).abs() < 1e-12);
@@ -210,7 +246,9 @@ mod tests {
                 corner_hz: 5.0,
                 order: 4,
                 sample_rate_hz: 1000.0,
+                phase: Default::default(),
             }),
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &tower).unwrap();
         assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
@@ -232,6 +270,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_max_g - 1.0).abs() < 1e-12);
@@ -239,6 +278,7 @@ mod tests {
         let tower = Rider {
             track_axis: Axis::Z,
             filter: None,
+            rates: Default::default(),
         };
         // Moving up the tower (towards −s) the brake pushes down: −z.
         let s = rider_signals(&r, &tower).unwrap();
@@ -251,6 +291,7 @@ mod tests {
         let seated = Rider {
             track_axis: Axis::X,
             filter: None,
+            rates: Default::default(),
         };
         assert_eq!(
             rider_signals(&r, &seated).err(),

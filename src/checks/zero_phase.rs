@@ -88,16 +88,7 @@ impl ZeroPhaseButterworth {
         if !order.is_multiple_of(2) || !(2..=max).contains(&order) {
             return Err(SignalError::InvalidZeroPhaseOrder { order, max });
         }
-        if !(sample_rate_hz.is_finite() && sample_rate_hz > 0.0) {
-            return Err(SignalError::InvalidSampleRate { sample_rate_hz });
-        }
-        let nyquist_hz = 0.5 * sample_rate_hz;
-        if !(corner_hz.is_finite() && corner_hz > 0.0 && corner_hz < nyquist_hz) {
-            return Err(SignalError::InvalidCorner {
-                corner_hz,
-                nyquist_hz,
-            });
-        }
+        super::filter::check_corner(corner_hz, sample_rate_hz)?;
         let m = order / 2;
         let design_hz = pass_design_hz(m, corner_hz, sample_rate_hz);
         let pass = Butterworth::lowpass(m, design_hz, sample_rate_hz)?;
@@ -271,15 +262,8 @@ fn pass_design_hz(m: usize, corner_hz: f64, sample_rate_hz: f64) -> f64 {
 }
 
 /// Whether ride accelerations are filtered without phase shift (the default) or in one causal
-/// pass (as an on-board logger would).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum Phase {
-    /// Forward and backward ([`ZeroPhaseButterworth`]); the order counts both passes.
-    #[default]
-    Zero,
-    /// One causal pass ([`Butterworth::filter`]); the order is the pass's.
-    Causal,
-}
+/// pass: the scenario's `rider.filter.phase`.
+pub use crate::scenario::FilterPhase as Phase;
 
 /// A ride-acceleration filter of either [`Phase`], designed from the same three numbers.
 #[derive(Debug, Clone, PartialEq)]

@@ -54,6 +54,26 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
     }
 }
 
+/// The options every case-by-case command takes: the scenario, JSON output, one case.
+#[derive(Debug, clap::Args)]
+pub struct CaseInput {
+    /// The scenario file.
+    pub scenario: std::path::PathBuf,
+    /// Print JSON instead of the tables.
+    #[arg(long)]
+    pub json: bool,
+    /// Only this case.
+    #[arg(long)]
+    pub case: Option<String>,
+}
+
+impl CaseInput {
+    /// The scenario, with only the `--case` named.
+    pub fn load(&self) -> Result<Scenario, Error> {
+        load(&self.scenario, self.case.as_deref())
+    }
+}
+
 /// Reads and validates a scenario file, keeping only the case `--case` names (all without it).
 pub fn load(path: &Path, case: Option<&str>) -> Result<Scenario, Error> {
     let mut s = scenario::load(path)?;

@@ -5,9 +5,10 @@ use super::error::{Error, EXIT_LIMIT_FAILED, EXIT_OK};
 use super::progress::Bar;
 use super::{emit, load};
 use clap::Args;
-use eddyzone::plan::{plan, yaml::scenario_yaml, PlanOptions};
+use eddyzone::plan::{plan, PlanOptions};
 use eddyzone::report::json_out::{pretty, PlanJson};
-use eddyzone::report::{terminal::plan_text, write_file};
+use eddyzone::report::{terminal::plan_text, write_file, OutputError};
+use eddyzone::scenario::write::to_yaml;
 use eddyzone::study::{Progress, Silent};
 use std::path::PathBuf;
 
@@ -39,7 +40,8 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     bar.finish();
     let r = r?;
     if let (Some(path), true) = (&a.write, r.feasible) {
-        write_file(path, scenario_yaml(&r.scenario).as_bytes())?;
+        let yaml = to_yaml(&r.scenario).map_err(OutputError::from)?;
+        write_file(path, yaml.as_bytes())?;
     }
     if a.json {
         emit(&pretty(&PlanJson::new(&r))?)?;

@@ -1,25 +1,21 @@
 //! `eddyzone run SCENARIO`: the vehicle's run through the zone for every case.
 
+use super::emit;
 use super::error::{Error, EXIT_OK};
-use super::{emit, load};
 use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
+use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::report::json_out::{pretty, RunJson};
-use eddyzone::report::{csv_out, terminal, write_files};
+use eddyzone::report::{csv_out, terminal};
 use eddyzone::study::Study;
 use std::path::PathBuf;
 
 /// Options of `run`.
 #[derive(Debug, Args)]
 pub struct RunArgs {
-    /// The scenario file.
-    pub scenario: PathBuf,
-    /// Print JSON instead of the table.
-    #[arg(long)]
-    pub json: bool,
-    /// Run only this case.
-    #[arg(long)]
-    pub case: Option<String>,
+    /// The scenario, JSON output, one case.
+    #[command(flatten)]
+    pub input: super::CaseInput,
     /// Write one profile CSV per case into this folder.
     #[arg(long)]
     pub profile: Option<PathBuf>,
@@ -36,7 +32,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
             a.dt
         )));
     }
-    let study = Study::new(load(&a.scenario, a.case.as_deref())?)?;
+    let study = Study::new(a.input.load()?)?;
     let options = RunOptions {
         sample_dt_s: a.dt,
         sampling: if a.profile.is_some() {
@@ -48,10 +44,10 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
     };
     let results = study.run(&options)?;
     if let Some(dir) = &a.profile {
-        write_files(dir, &csv_out::run_profiles(&results, "")?)?;
+        write_folder(dir, &csv_out::run_profiles(&results, "")?, Placement::Merge)?;
     }
     let name = &study.scenario().name;
-    if a.json {
+    if a.input.json {
         emit(&pretty(&RunJson::new(name, &results))?)?;
     } else {
         emit(&terminal::run_text(name, &results))?;

@@ -28,8 +28,6 @@
 //! Every layout reported feasible is the result of a full simulation of every case, judged by
 //! [`crate::checks::verdict`]. Candidates of one step are simulated in parallel (rayon).
 
-pub mod yaml;
-
 use crate::checks::Verdict;
 use crate::scenario::{
     cases, Case, CaseOrigin, ForceSource, MagnetDesign, Mount, PlanSpec, Scenario, Section,
@@ -161,28 +159,30 @@ pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Sce
             }),
             remanence_temp_coeff_per_k: p.module_remanence_temp_coeff_per_k,
             grade: p.module_grade,
-            lane: "main".into(),
+            lane: crate::scenario::defaults::LANE.into(),
         })
         .collect();
     let zone_start_m = mods.first().map_or(p.zone_start_m, |m| m.start_m);
     let zone_end_m = mods
         .last()
         .map_or(p.zone_start_m, |m| m.start_m + p.module_length_m);
-    let old_rollback_pos = base.zone_end_m + base.vehicle.length_m + 0.01;
     let mut kept: Vec<Case> = Vec::new();
     for c in &base.cases {
-        match c.origin {
-            CaseOrigin::SectionOut => {}
-            CaseOrigin::Listed | CaseOrigin::Corner => {
+        match &c.origin {
+            CaseOrigin::SectionOut { .. } => {}
+            CaseOrigin::Listed | CaseOrigin::Corner { .. } => {
                 let mut c = c.clone();
                 c.disabled.clear();
                 kept.push(c);
             }
-            CaseOrigin::Rollback => {
+            CaseOrigin::Rollback {
+                default_position, ..
+            } => {
                 let mut c = c.clone();
                 c.disabled.clear();
-                if (c.start_position_m - old_rollback_pos).abs() < 1e-9 {
-                    c.start_position_m = zone_end_m + base.vehicle.length_m + 0.01;
+                if *default_position {
+                    c.start_position_m =
+                        cases::default_rollback_position(zone_end_m, base.vehicle.length_m);
                 }
                 kept.push(c);
             }
@@ -198,7 +198,7 @@ pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Sce
     // Generated N−1 cases follow the listed/corner ones, before a backwards entry.
     let (mut out, rollback): (Vec<Case>, Vec<Case>) = kept
         .into_iter()
-        .partition(|c| c.origin != CaseOrigin::Rollback);
+        .partition(|c| !matches!(c.origin, CaseOrigin::Rollback { .. }));
     out.extend(generated);
     out.extend(rollback);
     Scenario {
@@ -210,22 +210,13 @@ pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Sce
     }
 }
 
-/// Names of the base cases of the scenario's one-section-out cases.
+/// Names of the base cases of the scenario's one-section-out cases, in order of first use.
 pub fn section_out_bases(s: &Scenario) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();
-    for c in s
-        .cases
-        .iter()
-        .filter(|c| c.origin == CaseOrigin::SectionOut)
-    {
-        if let Some(b) = s
-            .cases
-            .iter()
-            .filter(|b| b.origin != CaseOrigin::SectionOut)
-            .find(|b| c.name.starts_with(&format!("{}/without-", b.name)))
-        {
-            if !out.contains(&b.name) {
-                out.push(b.name.clone());
+    for c in &s.cases {
+        if let CaseOrigin::SectionOut { base, .. } = &c.origin {
+            if !out.contains(base) {
+                out.push(base.clone());
             }
         }
     }

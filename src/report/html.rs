@@ -2,6 +2,7 @@
 //! no external fonts or addresses. Apart from the one line `<p id="generated">…</p>`, the same
 //! inputs give the same bytes.
 
+use crate::checks::rider::sign_convention;
 use crate::checks::Verdict;
 use crate::dynamics::RunResult;
 use crate::report::figures::Figure;
@@ -86,15 +87,16 @@ const MODEL_NOTES: [&str; 7] = [
 
 fn verdict_table(v: &Verdict, out: &mut String) {
     out.push_str(
-        "<table id=\"case-table\">\n<tr><th>case</th><th>check</th><th>axis</th><th>value</th>\
-         <th>limit</th><th>margin</th><th>unit</th><th>result</th></tr>\n",
+        "<table id=\"case-table\">\n<tr><th>case</th><th>check</th><th>axis</th><th>state</th>\
+         <th>value</th><th>limit</th><th>margin</th><th>unit</th><th>binds at (s)</th>\
+         <th>result</th><th>note</th></tr>\n",
     );
     for c in &v.cases {
         if c.checks.is_empty() {
             let _ = writeln!(
                 out,
                 "<tr><td>{}</td><td>(no limits)</td><td></td><td></td><td></td><td></td><td></td>\
-                 <td class=\"pass\">pass</td></tr>",
+                 <td></td><td></td><td class=\"pass\">pass</td><td></td></tr>",
                 escape(&c.case)
             );
         }
@@ -104,21 +106,56 @@ fn verdict_table(v: &Verdict, out: &mut String) {
             } else {
                 ("fail", "FAIL")
             };
-            let _ = writeln!(
+            let _ =
+                writeln!(
                 out,
                 "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
-                 <td class=\"{cls}\">{txt}</td></tr>",
+                 <td>{}</td><td>{}</td><td class=\"{cls}\">{txt}</td><td>{}</td></tr>",
                 escape(&c.case),
                 escape(&r.check),
                 escape(r.axis.as_deref().unwrap_or("")),
+                r.state.map(|s| s.name()).unwrap_or(""),
                 escape(&num(r.value, 3)),
                 escape(&num(r.limit, 3)),
                 escape(&num(r.margin, 3)),
                 escape(&r.unit),
+                r.at_duration_s.map(|d| format!("{d:.3}")).unwrap_or_default(),
+                escape(
+                    &r.not_evaluated
+                        .as_ref()
+                        .map(|n| format!("not evaluated: {n}"))
+                        .unwrap_or_default()
+                ),
             );
         }
     }
     out.push_str("</table>\n");
+}
+
+/// The verdict in words: every failing case with its failing checks; the warnings about the
+/// limit set.
+fn verdict_words(v: &Verdict, out: &mut String) {
+    if !v.pass {
+        out.push_str("<ul id=\"failures\">\n");
+        for c in v.cases.iter().filter(|c| !c.pass) {
+            let checks: Vec<String> = c
+                .checks
+                .iter()
+                .filter(|r| !r.pass)
+                .map(|r| r.summary())
+                .collect();
+            let _ = writeln!(
+                out,
+                "<li><b>{}</b>: {}</li>",
+                escape(&c.case),
+                escape(&checks.join("; "))
+            );
+        }
+        out.push_str("</ul>\n");
+    }
+    for w in &v.warnings {
+        let _ = writeln!(out, "<p class=\"warning\">Warning: {}</p>", escape(w));
+    }
 }
 
 fn runs_table(runs: &[RunResult], out: &mut String) {
@@ -276,22 +313,39 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
             "FAIL — at least one check failed"
         }
     );
+    verdict_words(r.verdict, &mut o);
+    let _ = writeln!(
+        o,
+        "<p id=\"signs\">{}.</p>",
+        escape(&sign_convention(&s.rider))
+    );
     if let Some(src) = &s.limits.source {
         let _ = writeln!(o, "<p>Limits: {}</p>", escape(src));
+    }
+    if s.duty.is_some() {
+        o.push_str(
+            "<p>Each case is judged at the first dispatch and at the duty cycle's steady state; \
+             every row is the worse of the two (state).</p>\n",
+        );
     }
     o.push_str("<h3>Cases against the limits</h3>\n");
     verdict_table(r.verdict, &mut o);
     o.push_str(
         "<h3 id=\"worst\">Worst case of each check</h3>\n<table id=\"worst-table\">\n\
-         <tr><th>check</th><th>worst case</th><th>margin</th></tr>\n",
+         <tr><th>check</th><th>worst case</th><th>state</th><th>margin</th>\
+         <th>binds at (s)</th></tr>\n",
     );
     for w in &r.verdict.worst {
         let _ = writeln!(
             o,
-            "<tr><td>{}</td><td>{}</td><td>{}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
             escape(&w.check),
             escape(&w.case),
-            num(w.margin, 3)
+            w.state.map(|s| s.name()).unwrap_or(""),
+            num(w.margin, 3),
+            w.at_duration_s
+                .map(|d| format!("{d:.3}"))
+                .unwrap_or_default()
         );
     }
     o.push_str("</table>\n<h3>Runs</h3>\n");

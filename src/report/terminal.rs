@@ -195,11 +195,7 @@ pub fn verdict_summary(v: &Verdict) -> String {
             .checks
             .iter()
             .filter(|r| !r.pass)
-            .map(|r| match (r.margin, &r.not_evaluated) {
-                (Some(m), _) => format!("{} (margin {m:.3} {})", r.key(), r.unit),
-                (None, Some(n)) => format!("{} (not evaluated: {n})", r.key()),
-                (None, None) => r.key(),
-            })
+            .map(|r| r.summary())
             .collect();
         outln!(out, "  {}: {}", c.case, checks.join("; "));
     }

@@ -1,8 +1,9 @@
 //! Generated load and failure cases: one section out (N−1), the corners of a factorial, and a
 //! backwards entry. Names are stable and say what the case is (`full/hot-fin/cold-magnet`,
-//! `nominal/without-B2`, `rollback`).
+//! `nominal/without-B2`, `rollback`); where a case comes from is also kept as data in its
+//! [`CaseOrigin`], which the writer and the planner use.
 
-use super::{Case, CaseOrigin, Section};
+use super::{defaults, Case, CaseOrigin, CornerFactor, CornerLevel, Section};
 
 /// One case per section and base case, with that section out of service (N−1). Sections that
 /// are already out in the base case are skipped.
@@ -15,7 +16,10 @@ pub fn each_section_out(base: &[Case], sections: &[Section]) -> Vec<Case> {
             }
             let mut n = c.clone();
             n.name = format!("{}/without-{}", c.name, s.name);
-            n.origin = CaseOrigin::SectionOut;
+            n.origin = CaseOrigin::SectionOut {
+                base: c.name.clone(),
+                section: s.name.clone(),
+            };
             n.disabled.push(i);
             n.disabled.sort_unstable();
             out.push(n);
@@ -34,68 +38,81 @@ pub fn corners(
     magnet_temp_c: Option<(f64, f64)>,
     start_speed_m_s: Option<(f64, f64)>,
 ) -> Vec<Case> {
-    type Apply = fn(&mut Case, f64);
-    let dims: Vec<((f64, f64), [&str; 2], Apply)> = [
-        mass_kg.map(|r| {
-            (
-                r,
-                ["empty", "full"],
-                (|c: &mut Case, x| c.mass_kg = x) as Apply,
-            )
-        }),
-        fin_temp_c.map(|r| {
-            (
-                r,
-                ["cold-fin", "hot-fin"],
-                (|c: &mut Case, x| c.fin_temp_c = x) as Apply,
-            )
-        }),
-        magnet_temp_c.map(|r| {
-            (
-                r,
-                ["cold-magnet", "hot-magnet"],
-                (|c: &mut Case, x| c.magnet_temp_c = x) as Apply,
-            )
-        }),
-        start_speed_m_s.map(|r| {
-            (
-                r,
-                ["slow", "fast"],
-                (|c: &mut Case, x| c.start_speed_m_s = x) as Apply,
-            )
-        }),
-    ]
-    .into_iter()
-    .flatten()
-    .collect();
+    let dims: Vec<(CornerFactor, (f64, f64))> = CornerFactor::ALL
+        .into_iter()
+        .zip([mass_kg, fin_temp_c, magnet_temp_c, start_speed_m_s])
+        .filter_map(|(f, r)| r.map(|r| (f, r)))
+        .collect();
     if dims.is_empty() {
         return vec![];
     }
     let mut out = Vec::new();
     for mask in 0..(1usize << dims.len()) {
         let mut c = nominal.clone();
-        c.origin = CaseOrigin::Corner;
-        let mut parts = Vec::new();
-        for (d, ((lo, hi), names, apply)) in dims.iter().enumerate() {
-            let high = mask >> (dims.len() - 1 - d) & 1 == 1;
-            apply(&mut c, if high { *hi } else { *lo });
-            parts.push(names[usize::from(high)]);
+        let factors: Vec<CornerLevel> = dims
+            .iter()
+            .enumerate()
+            .map(|(d, &(factor, (low, high)))| CornerLevel {
+                factor,
+                low,
+                high,
+                at_high: mask >> (dims.len() - 1 - d) & 1 == 1,
+            })
+            .collect();
+        for f in &factors {
+            f.factor.apply(&mut c, f.value());
         }
-        c.name = parts.join("/");
+        c.name = factors
+            .iter()
+            .map(|f| f.factor.tags()[usize::from(f.at_high)])
+            .collect::<Vec<_>>()
+            .join("/");
+        c.origin = CaseOrigin::Corner { factors };
         out.push(c);
     }
     out
 }
 
-/// A vehicle entering the zone backwards from its downstream end at `speed_m_s` (magnitude).
+/// A vehicle entering the zone backwards from its downstream end at `speed_m_s` (magnitude),
+/// its front starting at `front_position_m` (given in the scenario).
 pub fn rollback(nominal: &Case, speed_m_s: f64, mass_kg: f64, front_position_m: f64) -> Case {
     let mut c = nominal.clone();
     c.name = "rollback".into();
-    c.origin = CaseOrigin::Rollback;
+    c.origin = CaseOrigin::Rollback {
+        speed_m_s,
+        default_position: false,
+    };
     c.mass_kg = mass_kg;
     c.start_position_m = front_position_m;
     c.start_speed_m_s = -speed_m_s.abs();
     c
+}
+
+/// [`rollback`] from the default start: the rear just downstream of the zone end.
+pub fn default_rollback(
+    nominal: &Case,
+    speed_m_s: f64,
+    mass_kg: f64,
+    zone_end_m: f64,
+    vehicle_length_m: f64,
+) -> Case {
+    let mut c = rollback(
+        nominal,
+        speed_m_s,
+        mass_kg,
+        default_rollback_position(zone_end_m, vehicle_length_m),
+    );
+    c.origin = CaseOrigin::Rollback {
+        speed_m_s,
+        default_position: true,
+    };
+    c
+}
+
+/// Front position of a default backwards entry: zone end + vehicle length +
+/// [`defaults::ROLLBACK_CLEARANCE_M`].
+pub fn default_rollback_position(zone_end_m: f64, vehicle_length_m: f64) -> f64 {
+    zone_end_m + vehicle_length_m + defaults::ROLLBACK_CLEARANCE_M
 }
 
 #[cfg(test)]
@@ -110,6 +127,7 @@ mod tests {
             mass_kg: 1000.0,
             start_position_m: 0.0,
             start_speed_m_s: 10.0,
+            start_in_zone: false,
             fin_temp_c: 20.0,
             magnet_temp_c: 20.0,
             disabled: vec![],
@@ -184,6 +202,59 @@ mod tests {
     fn rollback_runs_backwards() {
         let c = rollback(&nominal(), 3.0, 900.0, 50.0);
         assert_eq!(c.start_speed_m_s, -3.0);
-        assert_eq!(c.origin, CaseOrigin::Rollback);
+        assert!(matches!(c.origin, CaseOrigin::Rollback { .. }));
+    }
+
+    #[test]
+    fn generated_cases_carry_their_origin() {
+        let secs = [section("B1"), section("B2")];
+        let out = each_section_out(&[nominal()], &secs);
+        assert_eq!(
+            out[1].origin,
+            CaseOrigin::SectionOut {
+                base: "nominal".into(),
+                section: "B2".into()
+            }
+        );
+        let out = corners(
+            &nominal(),
+            Some((800.0, 1200.0)),
+            None,
+            None,
+            Some((5.0, 15.0)),
+        );
+        let names: Vec<_> = out.iter().map(|c| c.name.as_str()).collect();
+        assert_eq!(
+            names,
+            ["empty/slow", "empty/fast", "full/slow", "full/fast"]
+        );
+        for c in &out {
+            let CaseOrigin::Corner { factors } = &c.origin else {
+                panic!("{}: not a corner", c.name)
+            };
+            let kinds: Vec<_> = factors.iter().map(|f| f.factor).collect();
+            assert_eq!(kinds, [CornerFactor::Mass, CornerFactor::Speed]);
+            // The factors made the case: its values and its name.
+            assert_eq!(c.mass_kg, factors[0].value());
+            assert_eq!(c.start_speed_m_s, factors[1].value());
+            assert_eq!((factors[0].low, factors[0].high), (800.0, 1200.0));
+            let tags: Vec<_> = factors
+                .iter()
+                .map(|f| f.factor.tags()[usize::from(f.at_high)])
+                .collect();
+            assert_eq!(tags.join("/"), c.name);
+        }
+        let r = default_rollback(&nominal(), 2.0, 900.0, 30.0, 4.0);
+        assert_eq!(
+            r.start_position_m,
+            30.0 + 4.0 + defaults::ROLLBACK_CLEARANCE_M
+        );
+        assert_eq!(
+            r.origin,
+            CaseOrigin::Rollback {
+                speed_m_s: 2.0,
+                default_position: true
+            }
+        );
     }
 }

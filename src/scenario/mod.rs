@@ -1,9 +1,13 @@
 //! The scenario: YAML shapes (`raw`), validation (`validate`), the validated model in SI (this
-//! module) and generated load cases (`cases`). Only the validated model reaches physics.
+//! module), generated load cases (`cases`), every default of the format (`defaults`) and the
+//! writer back to YAML (`write`). Only the validated model reaches physics.
 
+pub mod bounds;
 pub mod cases;
+pub mod defaults;
 pub mod raw;
 pub mod validate;
+pub mod write;
 
 use crate::materials::Material;
 use serde::Serialize;
@@ -38,7 +42,7 @@ pub enum Mount {
 }
 
 /// The vehicle.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Vehicle {
     /// Nominal mass, kg.
     pub mass_kg: f64,
@@ -47,7 +51,7 @@ pub struct Vehicle {
 }
 
 /// A conducting fin.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Fin {
     /// Unique name (copies of a repeat get `-1`, `-2`, ...).
     pub name: String,
@@ -121,6 +125,18 @@ pub enum MagnetGrade {
 }
 
 impl MagnetGrade {
+    /// The suffix letters (`N`, `SH`, ...), as `parse` reads them.
+    pub fn suffix(self) -> &'static str {
+        match self {
+            MagnetGrade::N => "N",
+            MagnetGrade::M => "M",
+            MagnetGrade::H => "H",
+            MagnetGrade::SH => "SH",
+            MagnetGrade::UH => "UH",
+            MagnetGrade::EH => "EH",
+        }
+    }
+
     /// Maximum working temperature, °C (common practice: sintered NdFeB grade tables).
     pub fn max_temperature_c(self) -> f64 {
         match self {
@@ -153,7 +169,7 @@ impl MagnetGrade {
 }
 
 /// A magnet section along the track, or a magnet unit on the vehicle.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Section {
     /// Unique name (copies of a repeat get `-1`, `-2`, ...).
     pub name: String,
@@ -198,7 +214,7 @@ pub enum Gravity {
 }
 
 /// The track.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Track {
     /// Gravity along the track.
     pub gravity: Gravity,
@@ -207,7 +223,7 @@ pub struct Track {
 }
 
 /// Resistance to motion.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Resistance {
     /// Rolling coefficient μ.
     pub rolling_coeff: f64,
@@ -217,22 +233,124 @@ pub struct Resistance {
     pub friction_n: f64,
 }
 
-/// Where a case came from.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+impl Default for Resistance {
+    /// The scenario defaults ([`defaults::ROLLING_COEFF`], ...): none.
+    fn default() -> Self {
+        Self {
+            rolling_coeff: defaults::ROLLING_COEFF,
+            drag_area_m2: defaults::DRAG_AREA_M2,
+            friction_n: defaults::FRICTION_N,
+        }
+    }
+}
+
+/// Where a case came from: enough to write the `generate:` block that makes it again.
+#[derive(Debug, Clone, PartialEq, Serialize)]
 #[serde(rename_all = "snake_case")]
 pub enum CaseOrigin {
     /// Written in the scenario (or the implied nominal case).
     Listed,
-    /// One section out.
-    SectionOut,
-    /// A corner of the factorial.
-    Corner,
-    /// A backwards entry.
-    Rollback,
+    /// One section out (N−1).
+    SectionOut {
+        /// Name of the case it was derived from (listed or corner).
+        base: String,
+        /// Name of the section that is out.
+        section: String,
+    },
+    /// A corner of the factorial of `generate.corners`.
+    Corner {
+        /// Every factor of the factorial, in the order of the name parts.
+        factors: Vec<CornerLevel>,
+    },
+    /// A backwards entry (`generate.rollback`).
+    Rollback {
+        /// Entry speed (magnitude), m/s.
+        speed_m_s: f64,
+        /// The start position is the default (just downstream of the zone end), not given.
+        default_position: bool,
+    },
+}
+
+/// A quantity the corner factorial varies.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum CornerFactor {
+    /// Vehicle mass, kg (`empty` / `full`).
+    Mass,
+    /// Fin temperature before the pass, °C (`cold-fin` / `hot-fin`).
+    FinTemp,
+    /// Magnet temperature, °C (`cold-magnet` / `hot-magnet`).
+    MagnetTemp,
+    /// Start speed, m/s (`slow` / `fast`).
+    Speed,
+}
+
+impl CornerFactor {
+    /// Every factor, in the order of the name parts of a corner case.
+    pub const ALL: [CornerFactor; 4] = [
+        CornerFactor::Mass,
+        CornerFactor::FinTemp,
+        CornerFactor::MagnetTemp,
+        CornerFactor::Speed,
+    ];
+
+    /// Name parts of the low and the high end.
+    pub fn tags(self) -> [&'static str; 2] {
+        match self {
+            CornerFactor::Mass => ["empty", "full"],
+            CornerFactor::FinTemp => ["cold-fin", "hot-fin"],
+            CornerFactor::MagnetTemp => ["cold-magnet", "hot-magnet"],
+            CornerFactor::Speed => ["slow", "fast"],
+        }
+    }
+
+    /// The key under `generate.corners`.
+    pub fn key(self) -> &'static str {
+        match self {
+            CornerFactor::Mass => "mass",
+            CornerFactor::FinTemp => "fin_temp",
+            CornerFactor::MagnetTemp => "magnet_temp",
+            CornerFactor::Speed => "speed",
+        }
+    }
+
+    /// Sets this factor of a case.
+    pub fn apply(self, c: &mut Case, value: f64) {
+        match self {
+            CornerFactor::Mass => c.mass_kg = value,
+            CornerFactor::FinTemp => c.fin_temp_c = value,
+            CornerFactor::MagnetTemp => c.magnet_temp_c = value,
+            CornerFactor::Speed => c.start_speed_m_s = value,
+        }
+    }
+}
+
+/// One factor of a corner case: the range of the factorial and the end this case takes.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct CornerLevel {
+    /// Which quantity.
+    pub factor: CornerFactor,
+    /// Low end of the range (SI; °C for temperatures).
+    pub low: f64,
+    /// High end of the range.
+    pub high: f64,
+    /// This case takes the high end.
+    pub at_high: bool,
+}
+
+impl CornerLevel {
+    /// The value this case takes.
+    pub fn value(&self) -> f64 {
+        if self.at_high {
+            self.high
+        } else {
+            self.low
+        }
+    }
 }
 
 /// One load or failure case, fully resolved.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Case {
     /// Unique name.
     pub name: String,
@@ -244,6 +362,9 @@ pub struct Case {
     pub start_position_m: f64,
     /// m/s along the track.
     pub start_speed_m_s: f64,
+    /// The vehicle may start with fins already over magnets (`start: { in_zone: true }`);
+    /// otherwise such a start is an input error.
+    pub start_in_zone: bool,
     /// Fin temperature before the pass, °C.
     pub fin_temp_c: f64,
     /// Magnet temperature, °C.
@@ -257,10 +378,19 @@ pub struct Case {
 /// Integrator settings.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Solver {
-    /// Relative tolerance (default 1e-10).
+    /// Relative tolerance (default [`defaults::SOLVER_RTOL`]).
     pub rtol: f64,
-    /// Absolute tolerance (default 1e-10).
+    /// Absolute tolerance (default [`defaults::SOLVER_ATOL`]).
     pub atol: f64,
+}
+
+impl Default for Solver {
+    fn default() -> Self {
+        Self {
+            rtol: defaults::SOLVER_RTOL,
+            atol: defaults::SOLVER_ATOL,
+        }
+    }
 }
 
 /// Rider axis names.
@@ -289,12 +419,65 @@ impl Axis {
 /// Low-pass filter for limit evaluation.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct FilterSettings {
-    /// Corner, Hz (default 5).
+    /// Corner, Hz (default [`defaults::FILTER_CORNER_HZ`]).
     pub corner_hz: f64,
-    /// Poles (default 4).
+    /// Poles (default [`defaults::FILTER_ORDER`]).
     pub order: usize,
-    /// Resampling rate, Hz (default 1000).
+    /// Resampling rate, Hz (default [`defaults::FILTER_SAMPLE_RATE_HZ`]).
     pub sample_rate_hz: f64,
+    /// Forward and backward (zero phase, the default) or one causal pass.
+    pub phase: FilterPhase,
+}
+
+/// How the rider-acceleration filter runs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum FilterPhase {
+    /// Forward and backward: no phase shift; `order` counts the poles of both passes.
+    #[default]
+    Zero,
+    /// One causal pass, as an on-board logger filters.
+    Causal,
+}
+
+/// Which signal onset and release are measured on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum RateSignal {
+    /// The filtered felt acceleration (the default).
+    #[default]
+    Filtered,
+    /// The unfiltered felt acceleration.
+    Raw,
+}
+
+/// How onset and release are measured.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RateSettings {
+    /// Central-difference window, s (default [`defaults::RATE_WINDOW_S`]).
+    pub window_s: f64,
+    /// The signal differentiated.
+    pub signal: RateSignal,
+}
+
+impl Default for RateSettings {
+    fn default() -> Self {
+        Self {
+            window_s: defaults::RATE_WINDOW_S,
+            signal: RateSignal::Filtered,
+        }
+    }
+}
+
+impl Default for FilterSettings {
+    fn default() -> Self {
+        Self {
+            corner_hz: defaults::FILTER_CORNER_HZ,
+            order: defaults::FILTER_ORDER,
+            sample_rate_hz: defaults::FILTER_SAMPLE_RATE_HZ,
+            phase: FilterPhase::Zero,
+        }
+    }
 }
 
 /// Rider orientation.
@@ -304,6 +487,8 @@ pub struct Rider {
     pub track_axis: Axis,
     /// `None` when filtering is switched off.
     pub filter: Option<FilterSettings>,
+    /// How onset and release are measured.
+    pub rates: RateSettings,
 }
 
 /// Peak limits of one axis, g.
@@ -324,7 +509,13 @@ pub struct EnvelopeLimit {
     pub negative: Option<Vec<(f64, f64)>>,
 }
 
-/// Acceptance limits; every key optional.
+/// The model value of an SI acceleration (m/s²) or onset (m/s³): limits keep them in standard
+/// gravities (g, g/s).
+pub fn in_g(si: f64) -> f64 {
+    si / crate::constants::STANDARD_GRAVITY_M_S2
+}
+
+/// Acceptance limits (accelerations in g, see [`in_g`]); every key optional.
 #[derive(Debug, Clone, PartialEq, Serialize, Default)]
 pub struct Limits {
     /// Where the values come from.
@@ -333,8 +524,12 @@ pub struct Limits {
     pub peak: [PeakLimit; 3],
     /// Envelopes per axis (x, y, z).
     pub envelope: [EnvelopeLimit; 3],
-    /// Largest onset, g/s.
+    /// Largest onset (rate of rise of braking), g/s.
     pub onset_g_s: Option<f64>,
+    /// Largest release (rate at which braking falls away), g/s.
+    pub release_g_s: Option<f64>,
+    /// Combined-axis limits.
+    pub combined: Vec<CombinedLimit>,
     /// Lowest exit speed, m/s.
     pub exit_speed_min_m_s: Option<f64>,
     /// Highest exit speed, m/s.
@@ -349,6 +544,18 @@ pub struct Limits {
     pub max_fin_temperature_c: Option<f64>,
     /// Highest magnet temperature, °C.
     pub max_magnet_temperature_c: Option<f64>,
+}
+
+/// Two rider axes judged together: at every sample (a₁/s₁)² + (a₂/s₂)² ≤ 1, with each semi-axis
+/// s taken on the side (positive or negative) the acceleration is on — a quarter-ellipse per
+/// quadrant (the form of combined-acceleration criteria in ride standards, e.g. ASTM F2291; from
+/// memory, verify).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct CombinedLimit {
+    /// The two axes, in x, y, z order.
+    pub axes: [Axis; 2],
+    /// Per axis: [negative-side magnitude, positive-side level], g (both > 0).
+    pub semi_g: [[f64; 2]; 2],
 }
 
 /// Number of dispatches to simulate.
@@ -378,7 +585,7 @@ pub struct Duty {
 }
 
 /// The layout search input.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct PlanSpec {
     /// m.
     pub zone_start_m: f64,
@@ -401,7 +608,7 @@ pub struct PlanSpec {
 }
 
 /// The validated scenario, in SI.
-#[derive(Debug, Clone, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Scenario {
     /// Name.
     pub name: String,
@@ -420,6 +627,10 @@ pub struct Scenario {
     pub sections: Vec<Section>,
     /// Track.
     pub track: Track,
+    /// The nominal case: the vehicle mass with the top-level `start`, `temperatures` and
+    /// `resistance`. Listed cases default to it; corners and the backwards entry are built from
+    /// it. It is one of `cases` only when the scenario lists none.
+    pub nominal: Case,
     /// All cases, listed and generated.
     pub cases: Vec<Case>,
     /// Rear of the vehicle past this clears the zone, m.
