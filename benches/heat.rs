@@ -1,6 +1,9 @@
 //! Heat of one case of the tower demo over its duty cycle (passes with track-fin cells until the
 //! steady state), and of one pass. Run with `cargo bench --bench heat`.
 
+// A test or benchmark may stop at the first surprise.
+#![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
+
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::dynamics::BrakeTables;
 use eddyzone::thermal::{heat_case, run_pass, HeatOptions, DEFAULT_CELL_M};

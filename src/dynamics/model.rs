@@ -335,6 +335,43 @@ impl ActivePair {
         )
     }
 
+    /// Σ part·(force per metre of overlap) over parts of the overlap whose fin resistivity
+    /// differs: `parts` yields (ρ20/ρ(T), length of the part in m); N. The same sum as
+    /// [`ActivePair::force_per_m_at_inverse_resistivity`] part by part, with the law's constant
+    /// factors taken out of the sum (the cells of a track fin's temperature field).
+    #[inline]
+    pub fn force_over_parts_n(
+        &self,
+        speed_m_s: f64,
+        parts: impl Iterator<Item = (f64, f64)>,
+    ) -> f64 {
+        match &self.spec.law {
+            PairLaw::Table {
+                table,
+                active_height_m,
+                ..
+            } => {
+                // f = Br²·f_ref(|v|·σ_k)·h_a·sign(v) for each part.
+                let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
+                let sum: f64 = parts
+                    .map(|(inv_rho, part)| table.force_per_area_pa(scale * inv_rho) * part)
+                    .sum();
+                let r2 = self.remanence_ratio * self.remanence_ratio;
+                let f = r2 * sum * active_height_m;
+                if speed_m_s < 0.0 {
+                    -f
+                } else {
+                    f
+                }
+            }
+            PairLaw::Measured { .. } => parts
+                .map(|(inv_rho, part)| {
+                    self.force_per_m_at_inverse_resistivity(speed_m_s, inv_rho) * part
+                })
+                .sum(),
+        }
+    }
+
     /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
     /// reference conductivity, N/m.
     #[inline]

@@ -147,6 +147,17 @@ impl FrozenGravity {
         let s = self.mean_slope(front_m);
         (1.0 - s * s).max(0.0).sqrt()
     }
+
+    /// [`FrozenGravity::force_n`] and [`FrozenGravity::cos_theta`] from one evaluation of the
+    /// mean slope.
+    #[inline]
+    pub fn force_and_cos(&self, mass_kg: f64, front_m: f64) -> (f64, f64) {
+        let s = self.mean_slope(front_m);
+        (
+            -mass_kg * STANDARD_GRAVITY_M_S2 * s,
+            (1.0 - s * s).max(0.0).sqrt(),
+        )
+    }
 }
 
 /// Resistance force magnitude (always against the motion), N: rolling μ·m·g·cos θ, a constant

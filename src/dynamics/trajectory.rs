@@ -79,7 +79,8 @@ impl PathStep {
             if !(next > lo && next < hi) {
                 next = 0.5 * (lo + hi);
             }
-            if (next - th).abs() <= 1e-15 || hi - lo <= 1e-15 {
+            // 1e-13 of a step: far below the integrator's own error in the position.
+            if (next - th).abs() <= 1e-13 || hi - lo <= 1e-13 {
                 return next;
             }
             th = next;
@@ -164,6 +165,67 @@ pub fn poly_extrema(c: &[f64; 5], lo: f64, hi: f64) -> ((f64, f64), (f64, f64)) 
         }
     }
     (min, max)
+}
+
+/// Speeds along one piece of a run by position: the piece's steps (in order; the position is
+/// monotone over a piece) with their end positions, and the step the last query found, since
+/// queries come in nearby order.
+pub struct PieceSpeeds<'a> {
+    steps: &'a [PathStep],
+    /// Position at the end of each step's used part, m.
+    ends: Vec<f64>,
+    forward: bool,
+    last: usize,
+}
+
+impl<'a> PieceSpeeds<'a> {
+    /// The lookup for the steps of one piece.
+    pub fn new(steps: &'a [PathStep]) -> Self {
+        let ends: Vec<f64> = steps.iter().map(|s| s.span_m().1).collect();
+        let forward = match (steps.first(), ends.last()) {
+            (Some(f), Some(&e)) => e >= f.span_m().0,
+            _ => true,
+        };
+        Self {
+            steps,
+            ends,
+            forward,
+            last: 0,
+        }
+    }
+
+    /// The positions the piece starts and ends at, m.
+    pub fn span_m(&self) -> Option<(f64, f64)> {
+        Some((self.steps.first()?.span_m().0, *self.ends.last()?))
+    }
+
+    /// The speed where the front passes `x_m`, m/s (outside the piece's span: at the nearer
+    /// end): the step holding x, found by walking from the last one, then the θ there by
+    /// [`PathStep::theta_at_position`].
+    pub fn speed_at(&mut self, x_m: f64) -> f64 {
+        let n = self.steps.len();
+        if n == 0 {
+            return 0.0;
+        }
+        // Along the direction of travel: is x beyond the end of step i?
+        let beyond = |i: usize| {
+            if self.forward {
+                self.ends[i] < x_m
+            } else {
+                self.ends[i] > x_m
+            }
+        };
+        let mut i = self.last.min(n - 1);
+        while i + 1 < n && beyond(i) {
+            i += 1;
+        }
+        while i > 0 && !beyond(i - 1) {
+            i -= 1;
+        }
+        self.last = i;
+        let step = &self.steps[i];
+        step.speed_at(step.theta_at_position(x_m))
+    }
 }
 
 /// The runs of consecutive steps that belong to one piece, in order.

@@ -212,16 +212,17 @@ fn field_force(pair: &ActivePair, field: &FieldLaw, x: f64, v: f64, ov: f64) -> 
     let lo = pair.spec.overlap.lower_edge(x).0;
     let hi = lo + ov;
     let first = ((lo - field.start_m) / field.cell_m).floor().max(0.0) as usize;
-    let mut total = 0.0;
-    for (k, &inv_rho) in field.inverse_resistivity.iter().enumerate().skip(first) {
-        let c0 = field.start_m + k as f64 * field.cell_m;
-        if c0 >= hi {
-            break;
-        }
-        let part = hi.min(c0 + field.cell_m) - lo.max(c0);
-        if part > 0.0 {
-            total += pair.force_per_m_at_inverse_resistivity(v, inv_rho) * part;
-        }
-    }
-    total
+    let parts = field
+        .inverse_resistivity
+        .iter()
+        .enumerate()
+        .skip(first)
+        .map(|(k, &inv_rho)| {
+            let c0 = field.start_m + k as f64 * field.cell_m;
+            (c0, inv_rho, hi.min(c0 + field.cell_m) - lo.max(c0))
+        })
+        .take_while(|&(c0, _, _)| c0 < hi)
+        .filter(|&(_, _, part)| part > 0.0)
+        .map(|(_, inv_rho, part)| (inv_rho, part));
+    pair.force_over_parts_n(v, parts)
 }

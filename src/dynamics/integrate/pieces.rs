@@ -15,6 +15,8 @@ pub(super) struct Frozen {
     pub gravity: FrozenGravity,
     /// +1 or −1: direction of travel, for the sign of resistance.
     pub dir: f64,
+    /// Σα and Σβ over the pairs: the total overlap is Σα + Σβ·x.
+    pub overlap_sum: (f64, f64),
 }
 
 /// Sorted, de-duplicated kink positions of the front.
@@ -60,6 +62,7 @@ impl Frozen {
             pairs: Vec::new(),
             gravity: track.frozen(0.0, 1.0),
             dir: 1.0,
+            overlap_sum: (0.0, 0.0),
         }
     }
 
@@ -80,6 +83,10 @@ impl Frozen {
             }));
         self.gravity = track.frozen(mid, 1.0);
         self.dir = dir;
+        self.overlap_sum = self
+            .pairs
+            .iter()
+            .fold((0.0, 0.0), |(a, b), &(_, al, be)| (a + al, b + be));
     }
 }
 

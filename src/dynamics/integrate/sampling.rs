@@ -15,7 +15,7 @@ use super::dopri::Dense;
 use super::pieces::Frozen;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::track::resistance_magnitude_n;
-use crate::dynamics::trajectory::{poly_extrema, PathStep};
+use crate::dynamics::trajectory::{poly_extrema, poly_slope, poly_value, PathStep};
 use crate::dynamics::{RunResult, Sample};
 
 /// The sample clock of a run and its onset memory.
@@ -68,6 +68,7 @@ impl Sampler {
         res: &mut RunResult,
     ) {
         let th_hi = ((t_hi - dense.t0) / dense.h).clamp(0.0, 1.0);
+        let (position, speed) = (dense.poly(0), dense.poly(1));
         loop {
             let ts = self.next_k as f64 * self.dt_s;
             if ts > t_hi {
@@ -77,24 +78,26 @@ impl Sampler {
                 let th = ((ts - dense.t0) / dense.h).clamp(0.0, th_hi);
                 let m = Motion {
                     t_s: ts,
-                    x_m: dense.value_at_theta(0, th),
-                    v_m_s: dense.value_at_theta(1, th),
-                    a_m_s2: dense.rate_at_theta(1, th),
+                    x_m: poly_value(&position, th),
+                    v_m_s: poly_value(&speed, th),
+                    a_m_s2: poly_slope(&speed, th) / dense.h,
                 };
-                self.push(sc, m, false, res);
+                let mut s = derived(sc.ctx, sc.frozen, m, false);
+                self.onset.apply(&mut s);
+                record(res, &s, sc.in_zone);
+                res.samples.push(s);
             }
             self.next_k += 1;
         }
-        let speed = dense.poly(1);
         if sc.in_zone {
-            extremes(sc.frozen.dir, dense, &speed, th_hi, res);
+            extremes(sc.frozen.dir, dense, &position, &speed, th_hi, res);
         }
         if self.keep_trajectory {
             res.trajectory.push(PathStep {
                 t0_s: dense.t0,
                 h_s: dense.h,
                 theta_end: th_hi,
-                position_m: dense.poly(0),
+                position_m: position,
                 speed_m_s: speed,
                 piece: sc.piece,
             });
@@ -111,13 +114,6 @@ impl Sampler {
             res.samples.push(s);
         }
     }
-
-    fn push(&mut self, sc: &StepContext<'_>, m: Motion, event: bool, res: &mut RunResult) {
-        let mut s = derived(sc.ctx, sc.frozen, m, event);
-        self.onset.apply(&mut s);
-        record(res, &s, sc.in_zone);
-        res.samples.push(s);
-    }
 }
 
 /// The lowest speed and the peak deceleration of a step's continuous output on θ ∈ [0, θ_hi]
@@ -125,6 +121,7 @@ impl Sampler {
 fn extremes<const N: usize>(
     dir: f64,
     dense: &Dense<N>,
+    position: &[f64; 5],
     speed: &[f64; 5],
     th_hi: f64,
     res: &mut RunResult,
@@ -147,7 +144,7 @@ fn extremes<const N: usize>(
     if res.peak_decel_m_s2.is_none_or(|p| d > p) {
         res.peak_decel_m_s2 = Some(d);
         res.peak_decel_time_s = Some(dense.t0 + th * dense.h);
-        res.peak_decel_position_m = Some(dense.value_at_theta(0, th));
+        res.peak_decel_position_m = Some(poly_value(position, th));
     }
 }
 
@@ -167,11 +164,10 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
 /// `Onset::apply` from the previous sample.
 fn derived(ctx: &Ctx, fr: &Frozen, m: Motion, event: bool) -> Sample {
     let (x, v, a) = (m.x_m, m.v_m_s, m.a_m_s2);
-    let gravity = fr.gravity.force_n(ctx.mass_kg, x);
-    let cos_theta = fr.gravity.cos_theta(x);
+    let (gravity, cos_theta) = fr.gravity.force_and_cos(ctx.mass_kg, x);
     let resistance = -fr.dir
         * resistance_magnitude_n(&ctx.resistance, ctx.mass_kg, cos_theta, v, ctx.air_density);
-    let overlap: f64 = fr.pairs.iter().map(|&(_, al, be)| al + be * x).sum();
+    let overlap = fr.overlap_sum.0 + fr.overlap_sum.1 * x;
     let dir = if v != 0.0 { v.signum() } else { fr.dir };
     Sample {
         t_s: m.t_s,
