@@ -92,7 +92,37 @@ fn model_in(
     .map_err(|source| DynamicsError::physics(fin, section, source))
 }
 
-/// A generous upper bound on the speeds any case of the scenario reaches, m/s.
+/// An upper bound on the speeds any case of the scenario reaches, m/s, from the energy: brakes
+/// and resistance only take energy out, so at a front position x, v(x)² ≤ v₀² + 2g·(z̄(x₀) − z̄(x))
+/// with z̄ the mean elevation under the vehicle (the potential of [`super::track`]). A run stays
+/// between its start, the zone start (where a rollback ends) and the rear clearing the zone end,
+/// so z̄(x) there is at least the lowest elevation under the vehicle over that stretch
+/// (piecewise-linear profile: its lowest point or an end). 1 % and 0.5 m/s are added for the
+/// integrator's error; a faster run is still right, read from the exact model.
+pub fn reachable_speed_m_s(scenario: &Scenario) -> f64 {
+    use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+    let track = super::track::TrackModel::new(
+        &scenario.track.gravity,
+        scenario.track.air_density_kg_m3,
+        scenario.vehicle.length_m,
+    );
+    let length = scenario.vehicle.length_m;
+    let top_sq = scenario
+        .cases
+        .iter()
+        .map(|c| {
+            let x0 = c.start_position_m;
+            let lo = x0.min(scenario.zone_start_m) - length;
+            let hi = x0.max(scenario.zone_end_m + length);
+            let drop = track.mean_elevation_m(x0) - track.lowest_elevation_m(lo, hi);
+            c.start_speed_m_s * c.start_speed_m_s + 2.0 * G * drop.max(0.0)
+        })
+        .fold(0.0, f64::max);
+    1.01 * top_sq.sqrt() + 0.5
+}
+
+/// A generous upper bound on the speeds any case of the scenario reaches, m/s (the speed range
+/// of force curves): 1.25 × the energy bound from the largest drop to the zone end, plus 5 m/s.
 pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     use crate::constants::STANDARD_GRAVITY_M_S2 as G;
     let track = super::track::TrackModel::new(
@@ -199,7 +229,7 @@ impl BrakeTables {
                     .map(move |f| 1.0 / f.material.resistivity_ratio(c.fin_temp_c))
             })
             .fold(1.0, f64::max);
-        let vmax = speed_bound_m_s(scenario) * max_ratio;
+        let vmax = reachable_speed_m_s(scenario) * max_ratio;
         let mut pairs = Vec::new();
         for (fi, fin) in scenario.fins.iter().enumerate() {
             for (si, sec) in scenario.sections.iter().enumerate() {

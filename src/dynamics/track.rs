@@ -69,6 +69,17 @@ impl TrackModel {
         self.piece_at(s, 1.0).z(s)
     }
 
+    /// The lowest elevation over [lo, hi], m: at an end or at a profile point between.
+    pub fn lowest_elevation_m(&self, lo: f64, hi: f64) -> f64 {
+        self.points
+            .iter()
+            .map(|p| p.0)
+            .filter(|&s| s > lo && s < hi)
+            .chain([lo, hi])
+            .map(|s| self.elevation_m(s))
+            .fold(f64::INFINITY, f64::min)
+    }
+
     /// ∫ z ds from 0 to s along the profile (exact for piecewise-linear z).
     fn z_integral(&self, s: f64) -> f64 {
         // Integrate piece by piece between 0 and s, signed.
