@@ -1,5 +1,5 @@
-//! One full case of each demo scenario (compute only: tables built once outside the loop), and
-//! the table build itself. Run with `cargo bench --bench run`.
+//! One full case of each demo scenario and of the small benchmark case (compute only: tables
+//! built once outside the loop), and the table build itself. Run with `cargo bench --bench run`.
 
 // A test or benchmark may stop at the first surprise.
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
@@ -9,18 +9,22 @@ use eddyzone::dynamics::{simulate_case, BrakeTables, RunOptions};
 use std::hint::black_box;
 use std::path::Path;
 
-fn demo(name: &str) -> eddyzone::scenario::Scenario {
-    eddyzone::scenario::load(
-        &Path::new(env!("CARGO_MANIFEST_DIR"))
-            .join("scenarios")
-            .join(name),
-    )
-    .expect("demo scenario loads")
+fn load(path: &str) -> eddyzone::scenario::Scenario {
+    eddyzone::scenario::load(&Path::new(env!("CARGO_MANIFEST_DIR")).join(path))
+        .expect("scenario loads")
 }
 
 fn bench_cases(c: &mut Criterion) {
-    for name in ["coaster-brake-run.yaml", "tower-catch-brake.yaml"] {
-        let s = demo(name);
+    for path in [
+        "benches/data/small-coaster.yaml",
+        "scenarios/coaster-brake-run.yaml",
+        "scenarios/tower-catch-brake.yaml",
+    ] {
+        let name = Path::new(path)
+            .file_name()
+            .and_then(|n| n.to_str())
+            .unwrap_or(path);
+        let s = load(path);
         let tables = BrakeTables::build(&s).expect("tables");
         let opts = RunOptions::default();
         let case = &s.cases[0];

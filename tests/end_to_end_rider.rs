@@ -62,9 +62,11 @@ fn row(rows: &[Value], check: &str, axis: Option<&str>) -> Value {
         .clone()
 }
 
-/// `run` reads its peak from every sample, events included; `check`'s raw peak must be the same
-/// number (on a level track without resistance the felt deceleration is the net deceleration:
-/// Newton's second law, the specific force of the brake alone).
+/// `run` reads its peak from the integrator's continuous output, `check`'s raw peak is the
+/// largest over the samples (every millisecond and every event); on a level track without
+/// resistance the felt deceleration is the net deceleration (Newton's second law, the specific
+/// force of the brake alone), so the two agree up to the curvature of the peak between samples:
+/// the run's is never below the check's (1e-12 g for rounding) and within 1e-6 of it.
 #[test]
 fn run_and_check_report_the_same_raw_peak() {
     let tmp = tempfile::tempdir().unwrap();
@@ -84,7 +86,7 @@ fn run_and_check_report_the_same_raw_peak() {
             .as_f64()
             .unwrap();
         assert!(
-            (raw + net).abs() < 1e-9,
+            net >= -raw - 1e-12 && net + raw <= 1e-6 * net.abs(),
             "{name}: check raw {raw} vs run {net}"
         );
     }

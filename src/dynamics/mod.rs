@@ -7,6 +7,7 @@ pub mod integrate;
 pub mod model;
 pub mod overlap;
 pub mod track;
+pub mod trajectory;
 
 pub use integrate::{simulate_case, RunOptions, Sampling, SolverSettings, MAX_FINS};
 pub use model::BrakeTables;
@@ -224,18 +225,20 @@ pub struct RunResult {
     pub entry_speed_m_s: Option<f64>,
     /// Signed speed along the track when the vehicle left the zone, m/s.
     pub exit_speed_m_s: Option<f64>,
-    /// Lowest |v| between entry and the end of the run, m/s.
+    /// Lowest |v| between entry and the end of the run (continuous output), m/s.
     pub min_speed_m_s: Option<f64>,
     /// Front position at the stall, m.
     pub stall_position_m: Option<f64>,
-    /// Peak deceleration along the direction of travel inside the zone, m/s².
+    /// Peak deceleration along the direction of travel inside the zone, m/s²: the largest value
+    /// of the integrator's continuous output over every step (not only at samples).
     #[serde(flatten, serialize_with = "serialize_peak_decel")]
     pub peak_decel_m_s2: Option<f64>,
     /// Time of the peak, s.
     pub peak_decel_time_s: Option<f64>,
     /// Front position at the peak, m.
     pub peak_decel_position_m: Option<f64>,
-    /// Largest rate of rise of deceleration inside the zone, g/s.
+    /// Largest rate of rise of deceleration inside the zone, g/s: the backward difference between
+    /// consecutive samples (every dt and at events).
     pub peak_onset_g_s: Option<f64>,
     /// From entry to exit (or stall / end), s.
     pub time_in_zone_s: Option<f64>,
@@ -252,7 +255,7 @@ pub struct RunResult {
     /// Initial kinetic + potential energy (reference 0 at s = 0), J.
     #[serde(skip)]
     pub initial_energy_j: f64,
-    /// Largest |brake force|, N.
+    /// Largest |brake force| at the samples (every dt and at events), N.
     pub peak_brake_force_n: f64,
     /// Accepted integrator steps.
     pub steps: u64,
@@ -271,6 +274,10 @@ pub struct RunResult {
     /// Samples (every dt and at events; inside the zone only unless full sampling was asked for).
     #[serde(skip)]
     pub samples: Vec<Sample>,
+    /// The integrator's dense output of position and speed, step by step (only when
+    /// [`RunOptions::trajectory`] asks for it).
+    #[serde(skip)]
+    pub trajectory: Vec<trajectory::PathStep>,
 }
 
 /// Serializes the peak deceleration as `peak_decel_m_s2` and, beside it, `peak_decel_g` (the
@@ -316,6 +323,7 @@ impl RunResult {
             fins: vec![],
             warnings: vec![],
             samples: vec![],
+            trajectory: vec![],
         }
     }
 

@@ -92,7 +92,37 @@ fn model_in(
     .map_err(|source| DynamicsError::physics(fin, section, source))
 }
 
-/// A generous upper bound on the speeds any case of the scenario reaches, m/s.
+/// An upper bound on the speeds any case of the scenario reaches, m/s, from the energy: brakes
+/// and resistance only take energy out, so at a front position x, v(x)² ≤ v₀² + 2g·(z̄(x₀) − z̄(x))
+/// with z̄ the mean elevation under the vehicle (the potential of [`super::track`]). A run stays
+/// between its start, the zone start (where a rollback ends) and the rear clearing the zone end,
+/// so z̄(x) there is at least the lowest elevation under the vehicle over that stretch
+/// (piecewise-linear profile: its lowest point or an end). 1 % and 0.5 m/s are added for the
+/// integrator's error; a faster run is still right, read from the exact model.
+pub fn reachable_speed_m_s(scenario: &Scenario) -> f64 {
+    use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+    let track = super::track::TrackModel::new(
+        &scenario.track.gravity,
+        scenario.track.air_density_kg_m3,
+        scenario.vehicle.length_m,
+    );
+    let length = scenario.vehicle.length_m;
+    let top_sq = scenario
+        .cases
+        .iter()
+        .map(|c| {
+            let x0 = c.start_position_m;
+            let lo = x0.min(scenario.zone_start_m) - length;
+            let hi = x0.max(scenario.zone_end_m + length);
+            let drop = track.mean_elevation_m(x0) - track.lowest_elevation_m(lo, hi);
+            c.start_speed_m_s * c.start_speed_m_s + 2.0 * G * drop.max(0.0)
+        })
+        .fold(0.0, f64::max);
+    1.01 * top_sq.sqrt() + 0.5
+}
+
+/// A generous upper bound on the speeds any case of the scenario reaches, m/s (the speed range
+/// of force curves): 1.25 × the energy bound from the largest drop to the zone end, plus 5 m/s.
 pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     use crate::constants::STANDARD_GRAVITY_M_S2 as G;
     let track = super::track::TrackModel::new(
@@ -120,7 +150,7 @@ pub fn speed_bound_m_s(scenario: &Scenario) -> f64 {
     1.25 * (top * top + 2.0 * G * drop).sqrt() + 5.0
 }
 
-/// The speed the force tables of a scenario reach: [`speed_bound_m_s`] times the largest
+/// The speed the force tables of a scenario reach: [`reachable_speed_m_s`] times the largest
 /// conductivity ratio σ(T)/σ20 of any case's fin temperature (a cold fin reads the table at
 /// v·σ(T)/σ20).
 pub fn table_speed_m_s(scenario: &Scenario) -> f64 {
@@ -134,7 +164,7 @@ pub fn table_speed_m_s(scenario: &Scenario) -> f64 {
                 .map(move |f| 1.0 / f.material.resistivity_ratio(c.fin_temp_c))
         })
         .fold(1.0, f64::max);
-    speed_bound_m_s(scenario) * max_ratio
+    reachable_speed_m_s(scenario) * max_ratio
 }
 
 /// Force tables of distinct designs, shared across the studies of many scenarios (the planner's
@@ -329,9 +359,73 @@ impl ActivePair {
     #[inline]
     pub fn force_per_m_n(&self, speed_m_s: f64, fin_temp_c: f64) -> f64 {
         // σ(T)/σ_ref = ρ_ref/ρ(T).
-        let rho_ratio =
-            (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
-        let sigma_ratio = self.reference_resistivity_ratio / rho_ratio;
+        let sigma_ratio = self.reference_resistivity_ratio / self.resistivity_ratio(fin_temp_c);
+        self.force_per_m_at_sigma(speed_m_s, sigma_ratio)
+    }
+
+    /// The fin's resistivity at `fin_temp_c` relative to 20 °C, ρ(T)/ρ20 = 1 + α(T − 20 °C)
+    /// (at least 0.05).
+    #[inline]
+    pub fn resistivity_ratio(&self, fin_temp_c: f64) -> f64 {
+        (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05)
+    }
+
+    /// Force per metre of overlap at `speed_m_s` for a fin whose resistivity is ρ20 divided by
+    /// `inverse_resistivity_ratio` (that is, 1/[`ActivePair::resistivity_ratio`], computed once
+    /// per cell of a temperature field), N/m.
+    #[inline]
+    pub fn force_per_m_at_inverse_resistivity(
+        &self,
+        speed_m_s: f64,
+        inverse_resistivity_ratio: f64,
+    ) -> f64 {
+        self.force_per_m_at_sigma(
+            speed_m_s,
+            self.reference_resistivity_ratio * inverse_resistivity_ratio,
+        )
+    }
+
+    /// Σ part·(force per metre of overlap) over parts of the overlap whose fin resistivity
+    /// differs: `parts` yields (ρ20/ρ(T), length of the part in m); N. The same sum as
+    /// [`ActivePair::force_per_m_at_inverse_resistivity`] part by part, with the law's constant
+    /// factors taken out of the sum (the cells of a track fin's temperature field).
+    #[inline]
+    pub fn force_over_parts_n(
+        &self,
+        speed_m_s: f64,
+        parts: impl Iterator<Item = (f64, f64)>,
+    ) -> f64 {
+        match &self.spec.law {
+            PairLaw::Table {
+                table,
+                active_height_m,
+                ..
+            } => {
+                // f = Br²·f_ref(|v|·σ_k)·h_a·sign(v) for each part.
+                let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
+                let sum: f64 = parts
+                    .map(|(inv_rho, part)| table.force_per_area_pa(scale * inv_rho) * part)
+                    .sum();
+                let r2 = self.remanence_ratio * self.remanence_ratio;
+                let f = self.force_factor * r2 * sum * active_height_m;
+                if speed_m_s < 0.0 {
+                    -f
+                } else {
+                    f
+                }
+            }
+            PairLaw::Measured { .. } => parts
+                .map(|(inv_rho, part)| {
+                    self.force_per_m_at_inverse_resistivity(speed_m_s, inv_rho) * part
+                })
+                .sum(),
+        }
+    }
+
+    /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
+    /// reference conductivity, N/m.
+    #[inline]
+    fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
         let per_m = match &self.spec.law {
             PairLaw::Table {
                 table,
@@ -354,11 +448,10 @@ impl ActivePair {
     pub fn covers(&self, speed_m_s: f64, fin_temp_c: f64) -> bool {
         match &self.spec.law {
             PairLaw::Table { .. } => true,
-            PairLaw::Measured { curve, .. } => {
-                let rho_ratio =
-                    (1.0 + self.fin_alpha_per_k * (fin_temp_c - REFERENCE_TEMPERATURE_C)).max(0.05);
-                curve.covers(speed_m_s.abs() * self.reference_resistivity_ratio / rho_ratio)
-            }
+            PairLaw::Measured { curve, .. } => curve.covers(
+                speed_m_s.abs() * self.reference_resistivity_ratio
+                    / self.resistivity_ratio(fin_temp_c),
+            ),
         }
     }
 }

@@ -69,6 +69,17 @@ impl TrackModel {
         self.piece_at(s, 1.0).z(s)
     }
 
+    /// The lowest elevation over [lo, hi], m: at an end or at a profile point between.
+    pub fn lowest_elevation_m(&self, lo: f64, hi: f64) -> f64 {
+        self.points
+            .iter()
+            .map(|p| p.0)
+            .filter(|&s| s > lo && s < hi)
+            .chain([lo, hi])
+            .map(|s| self.elevation_m(s))
+            .fold(f64::INFINITY, f64::min)
+    }
+
     /// ∫ z ds from 0 to s along the profile (exact for piecewise-linear z).
     fn z_integral(&self, s: f64) -> f64 {
         // Integrate piece by piece between 0 and s, signed.
@@ -156,6 +167,17 @@ impl FrozenGravity {
     pub fn mean_curvature_1_m(&self) -> f64 {
         let angle = |p: &Piece| p.slope.clamp(-1.0, 1.0).asin();
         (angle(&self.front) - angle(&self.rear)) / self.length_m
+    }
+
+    /// [`FrozenGravity::force_n`] and [`FrozenGravity::cos_theta`] from one evaluation of the
+    /// mean slope.
+    #[inline]
+    pub fn force_and_cos(&self, mass_kg: f64, front_m: f64) -> (f64, f64) {
+        let s = self.mean_slope(front_m);
+        (
+            -mass_kg * STANDARD_GRAVITY_M_S2 * s,
+            (1.0 - s * s).max(0.0).sqrt(),
+        )
     }
 }
 

@@ -22,6 +22,7 @@
 //!
 //! Units are SI throughout: metres, tesla, siemens per metre, metres per second, pascal (N/m²).
 
+mod chebyshev;
 pub mod edge;
 mod eigen;
 pub mod ends;

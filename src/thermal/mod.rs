@@ -6,6 +6,7 @@
 //! dispatches and each pass runs with the temperatures they have then, until the peak changes by
 //! less than 0.1 K per cycle.
 
+mod cells;
 pub mod duty;
 pub mod pass;
 

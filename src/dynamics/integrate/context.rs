@@ -1,6 +1,7 @@
 //! Case setup: everything of a case that does not change during the run, and the forces and
 //! derivatives of the state under the frozen laws of one piece.
 
+use super::dopri::State;
 use super::options::{RunOptions, Sampling, TempField};
 use super::pieces::{kinks, Frozen};
 use super::solver::SolverSettings;
@@ -8,7 +9,6 @@ use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::model::{active_pairs, ActivePair, BrakeTables};
 use crate::dynamics::track::{resistance_magnitude_n, TrackModel};
 use crate::scenario::{Case, Mount, Resistance, Scenario};
-use ode_solvers::SVector;
 
 /// The brake pairs, fins and resistance of a case: what the right-hand side needs.
 pub(super) struct Ctx {
@@ -19,20 +19,38 @@ pub(super) struct Ctx {
     pub fin_capacity_j_k: Vec<Option<f64>>,
     pub fin_start_c: Vec<f64>,
     /// Per fin: temperature field (track fins in a duty cycle).
-    pub fin_fields: Vec<Option<TempField>>,
+    pub fin_fields: Vec<Option<FieldLaw>>,
     pub resistance: Resistance,
     pub air_density: f64,
     pub n_fins: usize,
 }
 
-/// Forces at a state under a frozen law.
-#[derive(Clone, Copy, Default)]
-pub(super) struct Forces {
-    pub brake_n: f64,
-    pub gravity_n: f64,
-    pub resistance_n: f64,
-    pub cos_theta: f64,
-    pub overlap_m: f64,
+/// A track fin's temperature field as the force law reads it: per cell the inverse of the
+/// resistivity ratio ρ20/ρ(T_k), computed once per run.
+pub(super) struct FieldLaw {
+    /// Track position of the first cell's upstream end, m.
+    start_m: f64,
+    /// Cell length, m.
+    cell_m: f64,
+    /// ρ20/ρ(T_k) per cell.
+    inverse_resistivity: Vec<f64>,
+}
+
+impl FieldLaw {
+    fn new(field: &TempField, alpha_per_k: f64) -> Self {
+        Self {
+            start_m: field.start_m,
+            cell_m: field.cell_m,
+            inverse_resistivity: field
+                .temps_c
+                .iter()
+                .map(|t| {
+                    1.0 / (1.0 + alpha_per_k * (t - crate::constants::REFERENCE_TEMPERATURE_C))
+                        .max(0.05)
+                })
+                .collect(),
+        }
+    }
 }
 
 /// One case made ready to run: the right-hand side's data, the track, the kinks of the force
@@ -48,6 +66,8 @@ pub(super) struct CaseSetup<'a> {
     /// Sample interval, s (at least 1 µs).
     pub sample_dt_s: f64,
     pub sampling: Sampling,
+    /// Keep the dense output in the result.
+    pub trajectory: bool,
 }
 
 impl<'a> CaseSetup<'a> {
@@ -83,8 +103,16 @@ impl<'a> CaseSetup<'a> {
             })
             .collect();
         let fin_fields = match &options.track_fin_fields {
-            Some(f) if f.len() == n_fins => f.clone(),
-            _ => vec![None; n_fins],
+            Some(f) if f.len() == n_fins => f
+                .iter()
+                .zip(&scenario.fins)
+                .map(|(field, fin)| {
+                    field
+                        .as_ref()
+                        .map(|t| FieldLaw::new(t, fin.material.temp_coeff_per_k))
+                })
+                .collect(),
+            _ => (0..n_fins).map(|_| None).collect(),
         };
         let ctx = Ctx {
             mass_kg: case.mass_kg,
@@ -109,6 +137,7 @@ impl<'a> CaseSetup<'a> {
             scenario,
             sample_dt_s: options.sample_dt_s.max(1e-6),
             sampling: options.sampling,
+            trajectory: options.trajectory,
         }
     }
 
@@ -120,28 +149,20 @@ impl<'a> CaseSetup<'a> {
 
 impl Ctx {
     /// Temperature of `fin` in the state `y`, °C.
-    pub fn fin_temp<const N: usize>(&self, fin: usize, y: &SVector<f64, N>) -> f64 {
+    pub fn fin_temp<const N: usize>(&self, fin: usize, y: &State<N>) -> f64 {
         match self.fin_capacity_j_k[fin] {
             Some(c) => self.fin_start_c[fin] + y[4 + fin] / c,
             None => self.fin_start_c[fin],
         }
     }
 
-    /// Forces and, when `dy` is given, the derivatives.
-    pub fn eval<const N: usize>(
-        &self,
-        fr: &Frozen,
-        y: &SVector<f64, N>,
-        dy: Option<&mut SVector<f64, N>>,
-    ) -> Forces {
+    /// The derivatives of the state `y` under the frozen laws `fr`.
+    #[inline]
+    pub fn eval<const N: usize>(&self, fr: &Frozen, y: &State<N>, dy: &mut State<N>) {
         let (x, v) = (y[0], y[1]);
         let mut brake = 0.0;
-        let mut overlap = 0.0;
-        let mut fin_power = [0.0f64; 16];
-        let mut fin_power_vec: Vec<f64> = Vec::new();
-        let use_vec = self.n_fins > fin_power.len();
-        if use_vec {
-            fin_power_vec = vec![0.0; self.n_fins];
+        for p in dy.iter_mut().skip(4).take(self.n_fins) {
+            *p = 0.0;
         }
         for &(p, a, b) in &fr.pairs {
             let ov = a + b * x;
@@ -152,13 +173,7 @@ impl Ctx {
                 None => pair.force_per_m_n(v, self.fin_temp(fin, y)) * ov,
             };
             brake -= f;
-            overlap += ov;
-            let power = f * v;
-            if use_vec {
-                fin_power_vec[fin] += power;
-            } else {
-                fin_power[fin] += power;
-            }
+            dy[4 + fin] += f * v;
         }
         let gravity = fr.gravity.force_n(self.mass_kg, x);
         let cos_theta = fr.gravity.cos_theta(x);
@@ -170,53 +185,44 @@ impl Ctx {
                 v,
                 self.air_density,
             );
-        if let Some(dy) = dy {
-            dy[0] = v;
-            dy[1] = (brake + gravity + resistance) / self.mass_kg;
-            dy[2] = -brake * v;
-            dy[3] = -resistance * v;
-            for i in 0..self.n_fins {
-                dy[4 + i] = if use_vec {
-                    fin_power_vec[i]
-                } else {
-                    fin_power[i]
-                };
-            }
-        }
-        Forces {
-            brake_n: brake,
-            gravity_n: gravity,
-            resistance_n: resistance,
-            cos_theta,
-            overlap_m: overlap,
-        }
+        dy[0] = v;
+        dy[1] = (brake + gravity + resistance) / self.mass_kg;
+        dy[2] = -brake * v;
+        dy[3] = -resistance * v;
     }
 
     /// Whether static resistance (rolling and friction) holds the vehicle at rest against
     /// gravity in the state `y`.
-    pub fn static_hold<const N: usize>(&self, fr: &Frozen, y: &SVector<f64, N>) -> bool {
-        let f = self.eval(fr, y, None);
-        let static_res = self.resistance.rolling_coeff * self.mass_kg * G * f.cos_theta
+    pub fn static_hold<const N: usize>(&self, fr: &Frozen, y: &State<N>) -> bool {
+        let x = y[0];
+        let gravity = fr.gravity.force_n(self.mass_kg, x);
+        let static_res = self.resistance.rolling_coeff * self.mass_kg * G * fr.gravity.cos_theta(x)
             + self.resistance.friction_n;
-        f.gravity_n.abs() <= static_res
+        gravity.abs() <= static_res
     }
 }
 
 /// Force of a pair whose track fin has a temperature field, for the front at `x` with the
 /// overlap length `ov` of the piece's frozen law: the window (from its lower edge, of length
 /// `ov`) is split at cell boundaries and each part uses its cell's temperature.
-fn field_force(pair: &ActivePair, field: &TempField, x: f64, v: f64, ov: f64) -> f64 {
+fn field_force(pair: &ActivePair, field: &FieldLaw, x: f64, v: f64, ov: f64) -> f64 {
     if ov.is_nan() || ov <= 0.0 {
         return 0.0;
     }
     let lo = pair.spec.overlap.lower_edge(x).0;
     let hi = lo + ov;
-    let mut total = 0.0;
-    for (k, c0, c1) in field.cells_touching(lo, hi) {
-        let part = hi.min(c1) - lo.max(c0);
-        if part > 0.0 {
-            total += pair.force_per_m_n(v, field.temps_c[k]) * part;
-        }
-    }
-    total
+    let first = ((lo - field.start_m) / field.cell_m).floor().max(0.0) as usize;
+    let parts = field
+        .inverse_resistivity
+        .iter()
+        .enumerate()
+        .skip(first)
+        .map(|(k, &inv_rho)| {
+            let c0 = field.start_m + k as f64 * field.cell_m;
+            (c0, inv_rho, hi.min(c0 + field.cell_m) - lo.max(c0))
+        })
+        .take_while(|&(c0, _, _)| c0 < hi)
+        .filter(|&(_, _, part)| part > 0.0)
+        .map(|(_, inv_rho, part)| (inv_rho, part));
+    pair.force_over_parts_n(v, parts)
 }

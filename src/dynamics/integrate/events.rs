@@ -1,8 +1,8 @@
 //! Event location: the event functions of a piece and the search for the first sign change on
 //! the solver's continuous output.
 
-use ode_solvers::continuous_output_model::ContinuousOutputModel;
-use ode_solvers::SVector;
+use super::dopri::Dense;
+use super::dopri::State;
 
 /// Event functions: an event happens when one goes from > 0 to ≤ 0.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -49,8 +49,12 @@ pub(super) struct Watch {
 
 impl Watch {
     /// The value of event function `e` at state `y`.
-    pub fn g<const N: usize>(&self, e: Event, y: &SVector<f64, N>) -> f64 {
-        let (x, v) = (y[0], y[1]);
+    pub fn g<const N: usize>(&self, e: Event, y: &State<N>) -> f64 {
+        self.g_of(e, y[0], y[1])
+    }
+
+    /// The value of event function `e` with the front at `x` moving at `v`.
+    pub fn g_of(&self, e: Event, x: f64, v: f64) -> f64 {
         match e {
             Event::PieceLow => x - self.lo,
             Event::PieceHigh => self.hi - x,
@@ -63,7 +67,7 @@ impl Watch {
     }
 
     /// Every event function at `y`, in the order of [`EVENTS`].
-    pub fn values<const N: usize>(&self, y: &SVector<f64, N>) -> [f64; 6] {
+    pub fn values<const N: usize>(&self, y: &State<N>) -> [f64; 6] {
         let mut g = [0.0; 6];
         for (i, e) in EVENTS.iter().enumerate() {
             g[i] = self.g(*e, y);
@@ -72,21 +76,12 @@ impl Watch {
     }
 }
 
-/// The earliest event whose function crosses from > 0 to ≤ 0 within the step [a, b], located on
-/// the continuous output to 1e-9 s (or a few ulps of b); (b, None) when none does on the
-/// continuous output after all.
-pub(super) fn first_event<const N: usize>(
-    cont: &ContinuousOutputModel<f64, SVector<f64, N>>,
-    watch: &Watch,
-    a: f64,
-    b: f64,
-) -> (f64, Option<Event>) {
-    // The step's start may be the piece start (the first step): check from there too.
-    let g_at = |tt: f64, e: Event| {
-        cont.evaluate(tt)
-            .map(|yy| watch.g(e, &yy))
-            .unwrap_or(f64::NAN)
-    };
+/// The earliest event whose function crosses from > 0 to ≤ 0 within the accepted step `d`,
+/// located on its continuous output to 1e-9 s (or a few ulps of the step end); (step end, None)
+/// when none does on the continuous output after all.
+pub(super) fn first_event<const N: usize>(d: &Dense<N>, watch: &Watch) -> (f64, Option<Event>) {
+    let (a, b) = (d.t0, d.t1());
+    let g_at = |tt: f64, e: Event| watch.g_of(e, d.value(0, tt), d.value(1, tt));
     let mut best: Option<(f64, Event)> = None;
     for e in EVENTS {
         let (ga, gb) = (g_at(a, e), g_at(b, e));

@@ -20,6 +20,7 @@
 //! means for the outcome, and finishing the result).
 
 mod context;
+mod dopri;
 mod events;
 mod options;
 mod pieces;
@@ -34,9 +35,9 @@ use super::model::BrakeTables;
 use super::{DynamicsError, IntegrationCause, RunResult};
 use crate::scenario::{Case, Scenario};
 use context::CaseSetup;
-use ode_solvers::SVector;
 use run::{non_finite, Flow, RunState};
-use sampling::PieceSpan;
+use sampling::{Motion, StepContext};
+use solver::PieceStart;
 
 /// Most fins a scenario may have (the state holds x, v, two energies and one energy per fin).
 pub const MAX_FINS: usize = 60;
@@ -66,6 +67,8 @@ pub fn simulate_case(
 }
 
 /// The run of one case with a state of N entries: piece after piece until an event ends it.
+/// Each piece costs one right-hand-side evaluation at its start (its laws differ from the last
+/// piece's) and continues with the step the controller proposed at the end of the last one.
 fn simulate_n<const N: usize>(
     scenario: &Scenario,
     tables: &BrakeTables,
@@ -79,42 +82,55 @@ fn simulate_n<const N: usize>(
     }
     loop {
         let piece = run.begin_piece(&setup)?;
-        let mut dy = SVector::<f64, N>::zeros();
-        setup.ctx.eval(&piece.frozen, &run.y, Some(&mut dy));
-        let bad = non_finite(&setup, &run.y, false).or_else(|| non_finite(&setup, &dy, true));
+        let mut f = [0.0f64; N];
+        setup.ctx.eval(&run.frozen, &run.y, &mut f);
+        run.res.rhs_evaluations += 1;
+        let bad = non_finite(&setup, &run.y, false).or_else(|| non_finite(&setup, &f, true));
         if let Some(quantity) = bad {
             return Err(run.failure(&setup, run.t, IntegrationCause::NonFinite(quantity)));
         }
+        let in_zone = run.in_zone();
+        let sc = StepContext {
+            ctx: &setup.ctx,
+            frozen: &run.frozen,
+            in_zone,
+            keep: setup.sampling == Sampling::Full || in_zone,
+            piece: piece.index,
+        };
+        let start = PieceStart {
+            t: run.t,
+            y: run.y,
+            f,
+            h: run.h_next,
+        };
+        let (sampler, res) = (&mut run.sampler, &mut run.res);
         let end = solver::step_piece(
             &setup.ctx,
-            &piece.frozen,
+            &run.frozen,
             &piece.watch,
             &setup.solver,
-            (run.t, run.y, dy),
+            start,
             piece.t_end,
+            |dense, t_hi| sampler.step(&sc, dense, t_hi, res),
         )
         .map_err(|(t_s, cause)| run.failure(&setup, t_s, cause))?;
         if let Some(quantity) = non_finite(&setup, &end.y_stop, false) {
             return Err(run.failure(&setup, end.t_stop, IntegrationCause::NonFinite(quantity)));
         }
+        let stop = Motion {
+            t_s: end.t_stop,
+            x_m: end.y_stop[0],
+            v_m_s: end.y_stop[1],
+            a_m_s2: end.a_stop,
+        };
+        run.sampler.event(&sc, stop, &mut run.res);
         run.res.steps += end.steps;
         run.res.rhs_evaluations += end.rhs_evaluations;
-        let in_zone = run.in_zone();
-        let keep = setup.sampling == Sampling::Full || in_zone;
-        let span = PieceSpan {
-            frozen: &piece.frozen,
-            trace: &end.trace,
-            t_start: run.t,
-            y_start: &run.y,
-            t_stop: end.t_stop,
-            y_stop: &end.y_stop,
-        };
-        run.sampler
-            .sample_piece(&setup.ctx, &span, in_zone, keep, &mut run.res);
-        run.warn_outside_measured(&setup, &piece.frozen, &end.y_stop);
+        run.h_next = end.next_h;
         run.t = end.t_stop;
         run.y = end.y_stop;
-        if run.after_event(&setup, &piece.frozen, end.event) == Flow::Stop {
+        run.warn_outside_measured(&setup);
+        if run.after_event(&setup, end.event) == Flow::Stop {
             break;
         }
     }

@@ -26,6 +26,9 @@ pub struct RunOptions {
     pub track_fin_fields: Option<Vec<Option<TempField>>>,
     /// Solver settings (default: [`SolverSettings::from_block`] of the scenario's solver block).
     pub solver: Option<SolverSettings>,
+    /// Keep the integrator's dense output of position and speed in
+    /// [`RunResult::trajectory`](crate::dynamics::RunResult::trajectory) (default false).
+    pub trajectory: bool,
 }
 
 impl Default for RunOptions {
@@ -37,6 +40,7 @@ impl Default for RunOptions {
             fin_start_temps_c: None,
             track_fin_fields: None,
             solver: None,
+            trajectory: false,
         }
     }
 }

@@ -9,13 +9,14 @@ use crate::dynamics::model::ActivePair;
 use crate::dynamics::track::{FrozenGravity, TrackModel};
 
 /// The frozen laws of one piece.
-#[derive(Clone)]
 pub(super) struct Frozen {
     /// (pair index, α, β): overlap = α + β·x.
     pub pairs: Vec<(usize, f64, f64)>,
     pub gravity: FrozenGravity,
     /// +1 or −1: direction of travel, for the sign of resistance.
     pub dir: f64,
+    /// Σα and Σβ over the pairs: the total overlap is Σα + Σβ·x.
+    pub overlap_sum: (f64, f64),
 }
 
 /// Sorted, de-duplicated kink positions of the front.
@@ -28,47 +29,64 @@ pub(super) fn kinks(pairs: &[ActivePair], track: &TrackModel) -> Vec<f64> {
     k
 }
 
-/// The piece [lo, hi] of the kink list holding x, ties broken by the direction of travel.
-pub(super) fn piece(kinks: &[f64], x: f64, dir: f64) -> (f64, f64) {
-    let idx = if dir >= 0.0 {
+/// The index of the piece of the kink list holding x, ties broken by the direction of travel:
+/// piece i is [kinks[i − 1], kinks[i]] (unbounded at the ends).
+pub(super) fn piece_index(kinks: &[f64], x: f64, dir: f64) -> usize {
+    if dir >= 0.0 {
         kinks.partition_point(|&k| k <= x)
     } else {
         kinks.partition_point(|&k| k < x)
-    };
+    }
+}
+
+/// The ends [lo, hi] of piece `idx`.
+pub(super) fn piece_bounds(kinks: &[f64], idx: usize) -> (f64, f64) {
     let lo = if idx == 0 {
         f64::NEG_INFINITY
     } else {
         kinks[idx - 1]
     };
-    let hi = if idx == kinks.len() {
-        f64::INFINITY
-    } else {
-        kinks[idx]
-    };
+    let hi = kinks.get(idx).copied().unwrap_or(f64::INFINITY);
     (lo, hi)
 }
 
-/// The laws of the piece [lo, hi] holding the front at `x`, read at a point strictly inside it.
-pub(super) fn freeze(ctx: &Ctx, track: &TrackModel, lo: f64, hi: f64, x: f64, dir: f64) -> Frozen {
-    let mid = match (lo.is_finite(), hi.is_finite()) {
-        (true, true) => 0.5 * (lo + hi),
-        (true, false) => lo.max(x) + 1.0,
-        (false, true) => hi.min(x) - 1.0,
-        (false, false) => x,
-    };
-    let pairs = ctx
-        .pairs
-        .iter()
-        .enumerate()
-        .filter_map(|(i, p)| {
-            let (a, b) = p.spec.overlap.linear(mid);
-            (a != 0.0 || b != 0.0).then_some((i, a, b))
-        })
-        .collect();
-    Frozen {
-        pairs,
-        gravity: track.frozen(mid, 1.0),
-        dir,
+/// The piece [lo, hi] of the kink list holding x, ties broken by the direction of travel.
+pub(super) fn piece(kinks: &[f64], x: f64, dir: f64) -> (f64, f64) {
+    piece_bounds(kinks, piece_index(kinks, x, dir))
+}
+
+impl Frozen {
+    /// No laws yet (a buffer for [`Frozen::refreeze`]).
+    pub fn empty(track: &TrackModel) -> Self {
+        Self {
+            pairs: Vec::new(),
+            gravity: track.frozen(0.0, 1.0),
+            dir: 1.0,
+            overlap_sum: (0.0, 0.0),
+        }
+    }
+
+    /// Freezes the laws of the piece [lo, hi] holding the front at `x`, read at a point strictly
+    /// inside it, in place (the pair list keeps its allocation from piece to piece).
+    pub fn refreeze(&mut self, ctx: &Ctx, track: &TrackModel, lo: f64, hi: f64, x: f64, dir: f64) {
+        let mid = match (lo.is_finite(), hi.is_finite()) {
+            (true, true) => 0.5 * (lo + hi),
+            (true, false) => lo.max(x) + 1.0,
+            (false, true) => hi.min(x) - 1.0,
+            (false, false) => x,
+        };
+        self.pairs.clear();
+        self.pairs
+            .extend(ctx.pairs.iter().enumerate().filter_map(|(i, p)| {
+                let (a, b) = p.spec.overlap.linear(mid);
+                (a != 0.0 || b != 0.0).then_some((i, a, b))
+            }));
+        self.gravity = track.frozen(mid, 1.0);
+        self.dir = dir;
+        self.overlap_sum = self
+            .pairs
+            .iter()
+            .fold((0.0, 0.0), |(a, b), &(_, al, be)| (a + al, b + be));
     }
 }
 

@@ -2,11 +2,11 @@
 //! zone, and what each event means for the outcome; and finishing the result.
 
 use super::context::CaseSetup;
+use super::dopri::State;
 use super::events::{Event, Watch};
-use super::pieces::{freeze, piece, Frozen};
+use super::pieces::{piece, piece_bounds, piece_index, Frozen};
 use super::sampling::Sampler;
 use crate::dynamics::{DynamicsError, FinHeat, IntegrationCause, Outcome, Quantity, RunResult};
-use ode_solvers::SVector;
 
 /// Most pieces one run may take before it counts as events in a loop.
 const MAX_PIECES: usize = 200_000;
@@ -21,18 +21,19 @@ pub(super) enum Flow {
     Stop,
 }
 
-/// One piece about to be stepped.
+/// One piece about to be stepped (its laws are in [`RunState::frozen`]).
 pub(super) struct Piece {
-    pub frozen: Frozen,
     pub watch: Watch,
     /// The piece ends here at the latest (time limit or creep deadline), s.
     pub t_end: f64,
+    /// Index of the piece in the run.
+    pub index: u32,
 }
 
 /// The state of a run between pieces.
 pub(super) struct RunState<const N: usize> {
     pub t: f64,
-    pub y: SVector<f64, N>,
+    pub y: State<N>,
     /// Direction of travel, ±1.
     pub dir: f64,
     initial_dir: f64,
@@ -43,8 +44,17 @@ pub(super) struct RunState<const N: usize> {
     creep_deadline: Option<f64>,
     measured_warned: bool,
     pieces: usize,
+    /// The laws of the current piece (one buffer for the whole run).
+    pub frozen: Frozen,
+    /// The first step to try in the next piece (0: chosen from the derivatives), s.
+    pub h_next: f64,
+    /// The index of the current piece among the kinks.
+    piece_idx: usize,
+    /// The next piece when the last one ended at one of its ends (the neighbour, whatever the
+    /// rounding of the position there).
+    next_piece: Option<usize>,
     pub res: RunResult,
-    pub sampler: Sampler<N>,
+    pub sampler: Sampler,
 }
 
 impl<const N: usize> RunState<N> {
@@ -52,7 +62,7 @@ impl<const N: usize> RunState<N> {
     /// gravity pulls it) and an empty result.
     pub fn start(setup: &CaseSetup<'_>) -> Self {
         let case = setup.case;
-        let mut y = SVector::<f64, N>::zeros();
+        let mut y = [0.0; N];
         y[0] = case.start_position_m;
         y[1] = case.start_speed_m_s;
         let initial_energy =
@@ -79,8 +89,12 @@ impl<const N: usize> RunState<N> {
             creep_deadline: None,
             measured_warned: false,
             pieces: 0,
+            frozen: Frozen::empty(&setup.track),
+            h_next: setup.solver.h_initial_s,
+            piece_idx: 0,
+            next_piece: None,
             res: RunResult::empty(&case.name, case.mass_kg, initial_energy),
-            sampler: Sampler::new(setup.sample_dt_s),
+            sampler: Sampler::new(setup.sample_dt_s, setup.trajectory),
         }
     }
 
@@ -110,8 +124,9 @@ impl<const N: usize> RunState<N> {
             return false;
         }
         let (lo, hi) = piece(&setup.kinks, self.y[0], self.dir);
-        let fr = freeze(&setup.ctx, &setup.track, lo, hi, self.y[0], self.dir);
-        let held = setup.ctx.static_hold(&fr, &self.y);
+        self.frozen
+            .refreeze(&setup.ctx, &setup.track, lo, hi, self.y[0], self.dir);
+        let held = setup.ctx.static_hold(&self.frozen, &self.y);
         if held {
             self.stall_here();
         }
@@ -126,9 +141,14 @@ impl<const N: usize> RunState<N> {
             let cause = IntegrationCause::TooManyPieces { pieces: MAX_PIECES };
             return Err(self.failure(setup, self.t, cause));
         }
-        let (lo, hi) = piece(&setup.kinks, self.y[0], self.dir);
-        let frozen = freeze(&setup.ctx, &setup.track, lo, hi, self.y[0], self.dir);
-        if !self.entered && !frozen.pairs.is_empty() {
+        self.piece_idx = self
+            .next_piece
+            .take()
+            .unwrap_or_else(|| piece_index(&setup.kinks, self.y[0], self.dir));
+        let (lo, hi) = piece_bounds(&setup.kinks, self.piece_idx);
+        self.frozen
+            .refreeze(&setup.ctx, &setup.track, lo, hi, self.y[0], self.dir);
+        if !self.entered && !self.frozen.pairs.is_empty() {
             self.entered = true;
             self.res.entry_speed_m_s = Some(self.y[1].abs());
             self.res.entry_time_s = Some(self.t);
@@ -148,21 +168,16 @@ impl<const N: usize> RunState<N> {
         let t_limit = scenario.time_limit_s;
         let t_end = self.creep_deadline.unwrap_or(t_limit).min(t_limit);
         Ok(Piece {
-            frozen,
             watch,
             t_end,
+            index: (self.pieces - 1) as u32,
         })
     }
 
     /// Warns once when the run inside the zone leaves the speed range of a measured curve of an
     /// overlapping pair (the curve is held at its last value there).
-    pub fn warn_outside_measured(
-        &mut self,
-        setup: &CaseSetup<'_>,
-        frozen: &Frozen,
-        y: &SVector<f64, N>,
-    ) {
-        let ctx = &setup.ctx;
+    pub fn warn_outside_measured(&mut self, setup: &CaseSetup<'_>) {
+        let (ctx, frozen, y) = (&setup.ctx, &self.frozen, &self.y);
         if self.in_zone()
             && !self.measured_warned
             && ctx.pairs.iter().enumerate().any(|(i, p)| {
@@ -180,18 +195,20 @@ impl<const N: usize> RunState<N> {
 
     /// What the event that ended a piece means: go on with the next piece, or stop with an
     /// outcome.
-    pub fn after_event(
-        &mut self,
-        setup: &CaseSetup<'_>,
-        frozen: &Frozen,
-        event: Option<Event>,
-    ) -> Flow {
+    pub fn after_event(&mut self, setup: &CaseSetup<'_>, event: Option<Event>) -> Flow {
         match event {
             None => self.at_end_time(setup),
-            Some(Event::PieceLow) | Some(Event::PieceHigh) => Flow::Continue,
-            Some(Event::Reversal) => self.at_reversal(setup, frozen),
+            Some(Event::PieceLow) => {
+                self.next_piece = self.piece_idx.checked_sub(1);
+                Flow::Continue
+            }
+            Some(Event::PieceHigh) => {
+                self.next_piece = Some(self.piece_idx + 1);
+                Flow::Continue
+            }
+            Some(Event::Reversal) => self.at_reversal(setup),
             Some(Event::Stall) => {
-                if setup.ctx.static_hold(frozen, &self.y) {
+                if setup.ctx.static_hold(&self.frozen, &self.y) {
                     self.stall_here();
                     return Flow::Stop;
                 }
@@ -220,11 +237,10 @@ impl<const N: usize> RunState<N> {
     }
 
     /// At rest for an instant: held by resistance, or moving off the other way.
-    fn at_reversal(&mut self, setup: &CaseSetup<'_>, frozen: &Frozen) -> Flow {
+    fn at_reversal(&mut self, setup: &CaseSetup<'_>) -> Flow {
         self.y[1] = 0.0;
-        let mut fr = frozen.clone();
-        fr.dir = -self.dir;
-        if setup.ctx.static_hold(&fr, &self.y) {
+        // Static resistance does not depend on the direction of travel.
+        if setup.ctx.static_hold(&self.frozen, &self.y) {
             self.stall_here();
             return Flow::Stop;
         }
@@ -297,7 +313,7 @@ impl<const N: usize> RunState<N> {
 /// and the fin energies that is not finite, named.
 pub(super) fn non_finite<const N: usize>(
     setup: &CaseSetup<'_>,
-    values: &SVector<f64, N>,
+    values: &State<N>,
     rates: bool,
 ) -> Option<Quantity> {
     let n = (4 + setup.ctx.n_fins).min(N);

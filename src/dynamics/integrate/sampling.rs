@@ -1,109 +1,157 @@
-//! Sampling: the uniform samples of a piece (cubic Hermite between accepted step ends, one
-//! right-hand-side evaluation each), the event sample at its end, the onset, and the running
-//! peaks of the result.
+//! Sampling from the integrator's continuous output: the uniform samples of every accepted step
+//! and the event sample at the end of a piece, the onset, the running extremes of the result,
+//! and the dense output kept for callers.
+//!
+//! A sample needs no right-hand-side evaluation: position, speed and acceleration come from the
+//! step's continuous extension (the quartic of Dormand & Prince and its slope, which meets the
+//! step's end derivatives), and the forces follow from them under the piece's frozen laws:
+//! gravity, the normal direction and resistance are cheap closed forms, and the brake force is
+//! what is left of m·a. The peak deceleration and the lowest speed are the extremes of the
+//! continuous output over each step (roots of its derivative), so they do not depend on the
+//! sample interval.
 
 use super::context::Ctx;
+use super::dopri::Dense;
 use super::pieces::Frozen;
-use super::solver::StepEnd;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
+use crate::dynamics::track::resistance_magnitude_n;
+use crate::dynamics::trajectory::{poly_extrema, poly_slope, poly_value, PathStep};
 use crate::dynamics::{RunResult, Sample};
-use crate::numeric::HermiteWeights;
-use ode_solvers::SVector;
 
-/// The sample clock and the scratch space of a run.
-pub(super) struct Sampler<const N: usize> {
+/// The sample clock of a run and its onset memory.
+pub(super) struct Sampler {
     /// Index of the next uniform sample (at `next_k`·dt).
     next_k: u64,
     dt_s: f64,
-    scratch: SVector<f64, N>,
     onset: Onset,
+    /// Keep the dense output in the result.
+    keep_trajectory: bool,
 }
 
-/// One piece as the sampler sees it.
-pub(super) struct PieceSpan<'a, const N: usize> {
+/// Where a sample is taken: time, position, speed and acceleration.
+#[derive(Clone, Copy)]
+pub(super) struct Motion {
+    pub t_s: f64,
+    pub x_m: f64,
+    pub v_m_s: f64,
+    pub a_m_s2: f64,
+}
+
+/// What a step of a piece means for the samples: the piece's laws, whether the vehicle is in the
+/// zone (extremes are taken there), whether samples are kept, and the piece's index.
+pub(super) struct StepContext<'a> {
+    pub ctx: &'a Ctx,
     pub frozen: &'a Frozen,
-    /// Accepted step ends from the piece start on.
-    pub trace: &'a [StepEnd<N>],
-    pub t_start: f64,
-    /// State at the piece start.
-    pub y_start: &'a SVector<f64, N>,
-    pub t_stop: f64,
-    pub y_stop: &'a SVector<f64, N>,
+    pub in_zone: bool,
+    pub keep: bool,
+    pub piece: u32,
 }
 
-impl<const N: usize> Sampler<N> {
+impl Sampler {
     /// A clock from t = 0 with interval `dt_s`.
-    pub fn new(dt_s: f64) -> Self {
+    pub fn new(dt_s: f64, keep_trajectory: bool) -> Self {
         Self {
             next_k: 0,
             dt_s,
-            scratch: SVector::zeros(),
             onset: Onset::default(),
+            keep_trajectory,
         }
     }
 
-    /// The uniform samples of a piece up to its stop and the event sample there. Samples feed
-    /// the result's peaks when `in_zone`; they are kept in the result when `keep`.
-    pub fn sample_piece(
+    /// The uniform samples of one accepted step up to `t_hi` (its end, or the event that stops
+    /// the piece), and the extremes of its continuous output there.
+    pub fn step<const N: usize>(
         &mut self,
-        ctx: &Ctx,
-        span: &PieceSpan<'_, N>,
-        in_zone: bool,
-        keep: bool,
+        sc: &StepContext<'_>,
+        dense: &Dense<N>,
+        t_hi: f64,
         res: &mut RunResult,
     ) {
-        let trace = span.trace;
-        let mut step = 0usize;
-        let mut ys = *span.y_start;
+        let th_hi = ((t_hi - dense.t0) / dense.h).clamp(0.0, 1.0);
+        let (position, speed) = (dense.poly(0), dense.poly(1));
         loop {
             let ts = self.next_k as f64 * self.dt_s;
-            if ts > span.t_stop {
+            if ts > t_hi {
                 break;
             }
-            if ts >= span.t_start && keep {
-                while step + 1 < trace.len() - 1 && trace[step + 1].0 < ts {
-                    step += 1;
-                }
-                if trace.len() >= 2 {
-                    interpolate(&trace[step], &trace[step + 1], ts, &mut ys);
-                } else {
-                    ys.copy_from(span.y_start);
-                }
-                let mut s = sample(ctx, span.frozen, ts, &ys, false, &mut self.scratch);
+            if sc.keep {
+                let th = ((ts - dense.t0) / dense.h).clamp(0.0, th_hi);
+                let m = Motion {
+                    t_s: ts,
+                    x_m: poly_value(&position, th),
+                    v_m_s: poly_value(&speed, th),
+                    a_m_s2: poly_slope(&speed, th) / dense.h,
+                };
+                let mut s = derived(sc.ctx, sc.frozen, m, false);
                 self.onset.apply(&mut s);
-                record(res, &s, in_zone);
+                record(res, &s, sc.in_zone);
                 res.samples.push(s);
             }
             self.next_k += 1;
         }
-        let mut s_end = sample(
-            ctx,
-            span.frozen,
-            span.t_stop,
-            span.y_stop,
-            true,
-            &mut self.scratch,
-        );
-        self.onset.apply(&mut s_end);
-        record(res, &s_end, in_zone);
-        if keep {
-            res.samples.push(s_end);
+        if sc.in_zone {
+            extremes(sc.frozen.dir, dense, &position, &speed, th_hi, res);
+        }
+        if self.keep_trajectory {
+            res.trajectory.push(PathStep {
+                t0_s: dense.t0,
+                h_s: dense.h,
+                theta_end: th_hi,
+                position_m: position,
+                speed_m_s: speed,
+                piece: sc.piece,
+            });
+        }
+    }
+
+    /// The sample at the end of a piece (an event, or the end time). It always feeds the onset
+    /// and, inside the zone, the brake force peak; it is kept when `sc.keep`.
+    pub fn event(&mut self, sc: &StepContext<'_>, m: Motion, res: &mut RunResult) {
+        let mut s = derived(sc.ctx, sc.frozen, m, true);
+        self.onset.apply(&mut s);
+        record(res, &s, sc.in_zone);
+        if sc.keep {
+            res.samples.push(s);
         }
     }
 }
 
-/// Updates the result's lowest speed and peaks with a sample inside the zone.
+/// The lowest speed and the peak deceleration of a step's continuous output on θ ∈ [0, θ_hi]
+/// (the direction of travel `dir` is fixed within a piece).
+fn extremes<const N: usize>(
+    dir: f64,
+    dense: &Dense<N>,
+    position: &[f64; 5],
+    speed: &[f64; 5],
+    th_hi: f64,
+    res: &mut RunResult,
+) {
+    // |v| = dir·v inside a piece (a reversal ends the piece).
+    let along = speed.map(|c| dir * c);
+    let ((_, v_min), _) = poly_extrema(&along, 0.0, th_hi);
+    let v_min = v_min.abs();
+    res.min_speed_m_s = Some(res.min_speed_m_s.map_or(v_min, |m| m.min(v_min)));
+    // Deceleration −dir·a = −dir·v′(θ)/h.
+    let decel = [
+        -dir * speed[1],
+        -dir * 2.0 * speed[2],
+        -dir * 3.0 * speed[3],
+        -dir * 4.0 * speed[4],
+        0.0,
+    ];
+    let (_, (th, d)) = poly_extrema(&decel, 0.0, th_hi);
+    let d = d / dense.h;
+    if res.peak_decel_m_s2.is_none_or(|p| d > p) {
+        res.peak_decel_m_s2 = Some(d);
+        res.peak_decel_time_s = Some(dense.t0 + th * dense.h);
+        res.peak_decel_position_m = Some(poly_value(position, th));
+    }
+}
+
+/// Updates the result's onset and brake force peaks with a sample inside the zone.
 fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
     if !in_zone {
         return;
-    }
-    let v = s.v_m_s.abs();
-    res.min_speed_m_s = Some(res.min_speed_m_s.map_or(v, |m| m.min(v)));
-    let decel = s.decel_g * G;
-    if res.peak_decel_m_s2.is_none_or(|p| decel > p) {
-        res.peak_decel_m_s2 = Some(decel);
-        res.peak_decel_time_s = Some(s.t_s);
-        res.peak_decel_position_m = Some(s.s_m);
     }
     if res.peak_onset_g_s.is_none_or(|p| s.onset_g_s > p) {
         res.peak_onset_g_s = Some(s.onset_g_s);
@@ -111,48 +159,30 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
     res.peak_brake_force_n = res.peak_brake_force_n.max(s.brake_force_n.abs());
 }
 
-/// Derived quantities at a state (one right-hand-side evaluation into a reused buffer). The onset
-/// is filled in by `Onset::apply` from the previous sample.
-fn sample<const N: usize>(
-    ctx: &Ctx,
-    fr: &Frozen,
-    t: f64,
-    y: &SVector<f64, N>,
-    event: bool,
-    dy: &mut SVector<f64, N>,
-) -> Sample {
-    let f = ctx.eval(fr, y, Some(dy));
-    let a = dy[1];
-    let dir = if y[1] != 0.0 { y[1].signum() } else { fr.dir };
+/// The sample at a point of the motion under the frozen laws (no right-hand-side evaluation:
+/// the brake force is m·a less gravity and resistance). The onset is filled in by
+/// `Onset::apply` from the previous sample.
+fn derived(ctx: &Ctx, fr: &Frozen, m: Motion, event: bool) -> Sample {
+    let (x, v, a) = (m.x_m, m.v_m_s, m.a_m_s2);
+    let (gravity, cos_theta) = fr.gravity.force_and_cos(ctx.mass_kg, x);
+    let resistance = -fr.dir
+        * resistance_magnitude_n(&ctx.resistance, ctx.mass_kg, cos_theta, v, ctx.air_density);
+    let overlap = fr.overlap_sum.0 + fr.overlap_sum.1 * x;
+    let dir = if v != 0.0 { v.signum() } else { fr.dir };
     Sample {
-        t_s: t,
-        s_m: y[0],
-        v_m_s: y[1],
+        t_s: m.t_s,
+        s_m: x,
+        v_m_s: v,
         a_m_s2: a,
         decel_g: -a * dir / G,
         onset_g_s: 0.0,
-        brake_force_n: f.brake_n,
-        gravity_force_n: f.gravity_n,
-        resistance_force_n: f.resistance_n,
-        cos_theta: f.cos_theta,
+        brake_force_n: ctx.mass_kg * a - gravity - resistance,
+        gravity_force_n: gravity,
+        resistance_force_n: resistance,
+        cos_theta,
         curvature_1_m: fr.gravity.mean_curvature_1_m(),
-        overlap_m: f.overlap_m,
+        overlap_m: overlap,
         event,
-    }
-}
-
-/// The state at `t` by cubic Hermite interpolation between two accepted step ends (value and
-/// derivative at both), third-order accurate like the integrator's own continuous extension;
-/// used for the uniform samples, while events are located on the integrator's continuous output.
-fn interpolate<const N: usize>(a: &StepEnd<N>, b: &StepEnd<N>, t: f64, out: &mut SVector<f64, N>) {
-    let h = b.0 - a.0;
-    if h <= 0.0 {
-        out.copy_from(&b.1);
-        return;
-    }
-    let w = HermiteWeights::at(((t - a.0) / h).clamp(0.0, 1.0));
-    for i in 0..out.len() {
-        out[i] = w.blend(h, a.1[i], a.2[i], b.1[i], b.2[i]);
     }
 }
 

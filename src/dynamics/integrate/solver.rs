@@ -1,20 +1,16 @@
-//! Stepping one piece with the Dormand–Prince 5(4) method: the solver settings, the right-hand
-//! side handed to the solver (which also watches the events after every accepted step), and the
-//! run of one piece up to its first event.
+//! Stepping one piece with the Dormand–Prince 5(4) method: the solver settings, and the run of
+//! one piece up to its first event (the event functions are checked after every accepted step).
 
 use super::context::Ctx;
+use super::dopri::{Dense, State, StepFailure, Stepper};
 use super::events::{first_event, Event, Watch, EVENTS};
 use super::pieces::Frozen;
 use crate::dynamics::IntegrationCause;
 use crate::scenario::Solver;
-use ode_solvers::continuous_output_model::ContinuousOutputModel;
-use ode_solvers::dop_shared::IntegrationError;
-use ode_solvers::{Dopri5, OutputType, SVector, System};
-use std::cell::{Cell, RefCell};
 
 /// Settings of the Dormand–Prince 5(4) solver (the names and meaning of ode_solvers'
 /// `Dopri5::from_param`, after Hairer, Nørsett & Wanner, Solving Ordinary Differential Equations
-/// I, 1993, §II.4 and the DOPRI5 code). Defaults: [`SolverSettings::from_block`].
+/// I, 1993, §II.4 and the DOPRI5 code; see [`super::dopri`]). Defaults: [`SolverSettings::from_block`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SolverSettings {
     /// Relative tolerance of the local error (scenario `solver.rtol`, default 1e-10).
@@ -69,138 +65,117 @@ impl Default for SolverSettings {
     }
 }
 
-/// An accepted step end: (t, y, y').
-pub(super) type StepEnd<const N: usize> = (f64, SVector<f64, N>, SVector<f64, N>);
-
-/// The right-hand side under the frozen laws of one piece. After each accepted step it records
-/// the step end and checks the event functions; on a sign change it keeps the step's time span
-/// and stops the solver.
-struct Rhs<'a, const N: usize> {
-    ctx: &'a Ctx,
-    frozen: &'a Frozen,
-    watch: &'a Watch,
-    prev: Option<(f64, [f64; 6])>,
-    triggered: &'a Cell<Option<(f64, f64)>>,
-    /// Accepted step ends (t, y, y'), for sampling by cubic Hermite interpolation.
-    trace: &'a RefCell<Vec<StepEnd<N>>>,
-}
-
-impl<const N: usize> System<f64, SVector<f64, N>> for Rhs<'_, N> {
-    fn system(&self, _t: f64, y: &SVector<f64, N>, dy: &mut SVector<f64, N>) {
-        self.ctx.eval(self.frozen, y, Some(dy));
-    }
-
-    fn solout(&mut self, t: f64, y: &SVector<f64, N>, dy: &SVector<f64, N>) -> bool {
-        self.trace.borrow_mut().push((t, *y, *dy));
-        let g = self.watch.values(y);
-        let hit = match self.prev {
-            Some((t0, g0)) => (0..EVENTS.len())
-                .any(|i| g0[i] > 0.0 && g[i] <= 0.0)
-                .then_some((t0, t)),
-            None => None,
-        };
-        self.prev = Some((t, g));
-        if let Some(h) = hit {
-            self.triggered.set(Some(h));
-            return true;
-        }
-        false
-    }
-}
-
 /// How one piece ended.
 pub(super) struct PieceEnd<const N: usize> {
     /// Where the piece stops: the first event, or the end time, s.
     pub t_stop: f64,
     /// The state there.
-    pub y_stop: SVector<f64, N>,
+    pub y_stop: State<N>,
+    /// The acceleration there, m/s².
+    pub a_stop: f64,
     /// The event that stopped it (None: the end time).
     pub event: Option<Event>,
-    /// The accepted step ends from the piece start on.
-    pub trace: Vec<StepEnd<N>>,
+    /// The step the controller proposes next (the first step of the next piece), s.
+    pub next_h: f64,
     /// Accepted steps.
     pub steps: u64,
-    /// Right-hand-side evaluations.
+    /// Right-hand-side evaluations (the solver's; the caller's evaluation at the start is not
+    /// counted here).
     pub rhs_evaluations: u64,
 }
 
-/// A solver failure as a typed cause, with the time the solver stopped at.
-fn cause_of(error: &IntegrationError, settings: &SolverSettings) -> (f64, IntegrationCause) {
-    match *error {
-        IntegrationError::MaxNumStepReached { x, .. } => (
-            x,
-            IntegrationCause::StepLimit {
-                steps: settings.max_steps,
-            },
-        ),
-        IntegrationError::StepSizeUnderflow { x } => (x, IntegrationCause::StepSizeUnderflow),
-        IntegrationError::StiffnessDetected { x } => (x, IntegrationCause::Stiff),
+/// A stepper failure as a typed cause.
+fn cause_of(failure: StepFailure, settings: &SolverSettings) -> IntegrationCause {
+    match failure {
+        StepFailure::StepLimit => IntegrationCause::StepLimit {
+            steps: settings.max_steps,
+        },
+        StepFailure::Underflow => IntegrationCause::StepSizeUnderflow,
+        StepFailure::Stiff => IntegrationCause::Stiff,
     }
 }
 
-/// Steps from `start` (t, y, y') under `frozen` towards `t_end` until the first event of
-/// `watch`, located on the solver's continuous output. Err: the solver's stop time and cause.
+/// Where a piece starts: time, state, its derivative under the piece's laws, and the first step
+/// to try (≤ 0: chosen from the derivatives).
+pub(super) struct PieceStart<const N: usize> {
+    pub t: f64,
+    pub y: State<N>,
+    pub f: State<N>,
+    pub h: f64,
+}
+
+/// Steps from `start` under `frozen` towards `t_end` until the first event of `watch`, located
+/// on the step's continuous output. Every accepted step is handed to `on_step` with the time it
+/// is used up to (its end, or the event). Err: the solver's stop time and cause.
 pub(super) fn step_piece<const N: usize>(
     ctx: &Ctx,
     frozen: &Frozen,
     watch: &Watch,
     settings: &SolverSettings,
-    start: StepEnd<N>,
+    start: PieceStart<N>,
     t_end: f64,
+    mut on_step: impl FnMut(&Dense<N>, f64),
 ) -> Result<PieceEnd<N>, (f64, IntegrationCause)> {
-    let (t, y, _) = start;
-    let triggered = Cell::new(None);
-    let trace = RefCell::new(vec![start]);
-    let rhs = Rhs {
-        ctx,
-        frozen,
-        watch,
-        prev: Some((t, watch.values(&y))),
-        triggered: &triggered,
-        trace: &trace,
+    let mut rhs = |y: &State<N>, dy: &mut State<N>| ctx.eval(frozen, y, dy);
+    let mut stepper = Stepper::new(settings, start.t, start.y, start.f, start.h);
+    let mut end = PieceEnd {
+        t_stop: t_end,
+        y_stop: start.y,
+        a_stop: start.f[1],
+        event: None,
+        next_h: start.h,
+        steps: 0,
+        rhs_evaluations: 0,
     };
-    let mut cont = ContinuousOutputModel::new();
-    let (mut steps, mut rhs_evaluations) = (0, 0);
-    if t_end - t > 1e-12 {
-        let mut solver = Dopri5::from_param(
-            rhs,
-            t,
-            t_end,
-            0.0,
-            y,
-            settings.rtol,
-            settings.atol,
-            settings.safety_factor,
-            settings.beta,
-            settings.fac_min,
-            settings.fac_max,
-            settings.h_max_s,
-            settings.h_initial_s,
-            settings.max_steps,
-            settings.stiffness_test_every,
-            OutputType::Continuous,
-        );
-        let stats = solver
-            .integrate_with_continuous_output_model(&mut cont)
-            .map_err(|e| cause_of(&e, settings))?;
-        steps = u64::from(stats.accepted_steps);
-        rhs_evaluations = u64::from(stats.num_eval);
+    if t_end - start.t > 1e-12 {
+        if start.h.is_nan() || start.h <= 0.0 {
+            stepper.initial_step(&mut rhs);
+        }
+        let mut g_prev = watch.values(&start.y);
+        loop {
+            let last = stepper
+                .step(&mut rhs, t_end)
+                .map_err(|e| (stepper.t, cause_of(e, settings)))?;
+            let g = watch.values(&stepper.y);
+            if (0..EVENTS.len()).any(|i| g_prev[i] > 0.0 && g[i] <= 0.0) {
+                let d = stepper.dense;
+                match first_event(&d, watch) {
+                    (t_stop, Some(event)) => {
+                        let th = ((t_stop - d.t0) / d.h).clamp(0.0, 1.0);
+                        on_step(&d, t_stop);
+                        end.t_stop = t_stop;
+                        end.event = Some(event);
+                        end.y_stop = stepper.restep_to(&mut rhs, t_stop);
+                        end.a_stop = d.rate_at_theta(1, th);
+                    }
+                    (_, None) => {
+                        // The crossing shows only in the step-end values (the continuous output
+                        // there differs by rounding): the event is at the step end.
+                        on_step(&d, stepper.t);
+                        end.t_stop = stepper.t;
+                        end.event = (0..EVENTS.len())
+                            .find(|&i| g_prev[i] > 0.0 && g[i] <= 0.0)
+                            .map(|i| EVENTS[i]);
+                        end.y_stop = stepper.y;
+                        end.a_stop = stepper.f[1];
+                    }
+                }
+                break;
+            }
+            on_step(&stepper.dense, stepper.t);
+            g_prev = g;
+            if last {
+                end.t_stop = stepper.t;
+                end.y_stop = stepper.y;
+                end.a_stop = stepper.f[1];
+                break;
+            }
+        }
     }
-    let (t_stop, event) = match triggered.get() {
-        Some((a, b)) => first_event(&cont, watch, a, b),
-        None => (t_end, None),
-    };
-    let y_stop = if t_stop > t {
-        cont.evaluate(t_stop).unwrap_or(y)
-    } else {
-        y
-    };
-    Ok(PieceEnd {
-        t_stop,
-        y_stop,
-        event,
-        trace: trace.into_inner(),
-        steps,
-        rhs_evaluations,
-    })
+    // The next piece starts where this one's laws stopped holding: with the last step taken,
+    // not a grown proposal (a step across the kink said nothing about the new laws).
+    end.next_h = stepper.h.min(stepper.dense.h);
+    end.steps = stepper.accepted;
+    end.rhs_evaluations = stepper.evaluations;
+    Ok(end)
 }

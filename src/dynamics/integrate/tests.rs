@@ -117,3 +117,57 @@ fn solver_settings_default_to_the_block() {
     }));
     assert!(loose.steps < by_default.steps);
 }
+
+/// A pin on the work of one run, so that a silent slow-down fails: the small benchmark case
+/// (benches/data/small-coaster.yaml) takes 379 right-hand-side evaluations and 40 steps with
+/// the default settings. More is a regression; fewer (a better step control) should update the
+/// pin — the 5 % band below it keeps the pin honest. Its energy residual stays below 1e-6 of the
+/// braking energy (the accuracy the pin must not be bought with).
+#[test]
+fn right_hand_side_count_of_the_small_case_is_pinned() {
+    const RHS: usize = 379;
+    let s = crate::scenario::load(std::path::Path::new(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/benches/data/small-coaster.yaml"
+    )))
+    .expect("benchmark case loads");
+    let tables = BrakeTables::build(&s).expect("tables");
+    let r = simulate_case(&s, &tables, &s.cases[0], &RunOptions::default()).expect("runs");
+    let rhs = r.rhs_evaluations as usize;
+    assert!(
+        rhs <= RHS && rhs * 100 >= RHS * 95,
+        "{rhs} right-hand-side evaluations (pinned {RHS}), {} steps",
+        r.steps
+    );
+    assert!(r.energy_residual_j.abs() <= 1e-6 * r.braking_energy_j);
+}
+
+/// The table range: no sample of any case of the shipped demos is faster than the energy bound
+/// (energy conservation with dissipative brakes and resistance), and the free fall of the tower
+/// demo comes within 30 % of it.
+#[test]
+fn reachable_speed_bounds_every_demo_run() {
+    for name in ["coaster-brake-run", "tower-catch-brake", "coaster-plan"] {
+        let path = format!("{}/scenarios/{name}.yaml", env!("CARGO_MANIFEST_DIR"));
+        let s = crate::scenario::load(std::path::Path::new(&path)).expect("demo loads");
+        let bound = crate::dynamics::model::reachable_speed_m_s(&s);
+        let tables = BrakeTables::build(&s).expect("tables");
+        let options = RunOptions {
+            sampling: crate::dynamics::Sampling::Full,
+            ..RunOptions::default()
+        };
+        let mut fastest: f64 = 0.0;
+        for case in &s.cases {
+            let r = simulate_case(&s, &tables, case, &options).expect("runs");
+            fastest = r
+                .samples
+                .iter()
+                .map(|x| x.v_m_s.abs())
+                .fold(fastest, f64::max);
+        }
+        assert!(fastest <= bound, "{name}: {fastest} > {bound}");
+        if name == "tower-catch-brake" {
+            assert!(fastest >= bound / 1.4, "{name}: {fastest} ≪ {bound}");
+        }
+    }
+}
