@@ -198,12 +198,16 @@ impl<const N: usize> RunState<N> {
     pub fn after_event(&mut self, setup: &CaseSetup<'_>, event: Option<Event>) -> Flow {
         match event {
             None => self.at_end_time(setup),
+            // The next piece in the direction of travel; past it when the located event left the
+            // front beyond a piece shorter than the location tolerance (two kinks 1e-12 m apart).
             Some(Event::PieceLow) => {
-                self.next_piece = self.piece_idx.checked_sub(1);
+                let here = piece_index(&setup.kinks, self.y[0], self.dir);
+                self.next_piece = self.piece_idx.checked_sub(1).map(|i| i.min(here));
                 Flow::Continue
             }
             Some(Event::PieceHigh) => {
-                self.next_piece = Some(self.piece_idx + 1);
+                let here = piece_index(&setup.kinks, self.y[0], self.dir);
+                self.next_piece = Some((self.piece_idx + 1).max(here));
                 Flow::Continue
             }
             Some(Event::Reversal) => self.at_reversal(setup),
