@@ -3,13 +3,16 @@
 //! `eddyzone::report`.
 
 pub mod check;
+pub mod completions;
 pub mod curve;
 pub mod error;
 pub mod heat;
+pub mod init;
 pub mod plan;
 pub mod progress;
 pub mod report;
 pub mod run;
+pub mod schema;
 
 use clap::{Parser, Subcommand};
 use eddyzone::scenario::{self, Scenario};
@@ -40,6 +43,14 @@ pub enum Command {
     Plan(plan::PlanArgs),
     /// Fin heating over a pass and over the duty cycle.
     Heat(heat::HeatArgs),
+    /// A commented starter scenario (tower, coaster, rollback, sled) that passes `check`.
+    Init(init::InitArgs),
+    /// The JSON Schema of the scenario format, for an editor's YAML support.
+    Schema(schema::SchemaArgs),
+    /// A shell completion script.
+    Completions(completions::CompletionsArgs),
+    /// The manual page (roff), of eddyzone or of one command.
+    Manpage(completions::ManpageArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -51,6 +62,10 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Report(a) => report::execute(&a),
         Command::Plan(a) => plan::execute(&a),
         Command::Heat(a) => heat::execute(&a),
+        Command::Init(a) => init::execute(&a),
+        Command::Schema(a) => schema::execute(&a),
+        Command::Completions(a) => completions::completions(&a),
+        Command::Manpage(a) => completions::manpage(&a),
     }
 }
 

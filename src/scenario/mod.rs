@@ -5,6 +5,8 @@
 pub mod cases;
 pub mod defaults;
 pub mod raw;
+pub mod schema;
+pub mod starters;
 pub mod validate;
 pub mod write;
 

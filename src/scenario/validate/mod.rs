@@ -162,15 +162,6 @@ pub fn parse_str(text: &str, file: &str, base: Option<&Path>) -> Result<Scenario
     }
 }
 
-/// A limit set file: `limits:` at the top, and nothing else but a name.
-#[derive(Debug, serde::Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawLimitsFile {
-    #[allow(dead_code)]
-    name: Option<String>,
-    limits: RawLimits,
-}
-
 /// Collects every problem of a file while turning raw shapes into the model.
 #[derive(Default)]
 struct Validator {
