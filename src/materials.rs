@@ -24,6 +24,30 @@ pub struct Material {
     pub specific_heat_j_kg_k: f64,
     /// Where the values come from.
     pub source: String,
+    /// Temperature above which the material loses its temper (strength) with exposure, °C
+    /// (None: no temper to lose, or not known).
+    pub softening_c: Option<f64>,
+    /// Solidus: the material starts to melt, °C.
+    pub solidus_c: Option<f64>,
+}
+
+impl Material {
+    /// A warning when `temperature_c` is above the material's softening point or solidus.
+    pub fn temperature_warning(&self, what: &str, temperature_c: f64) -> Option<String> {
+        match (self.solidus_c, self.softening_c) {
+            (Some(m), _) if temperature_c >= m => Some(format!(
+                "{what} reaches {temperature_c:.0} °C, at or above the solidus of {} ({m:.0} °C): \
+                 the fin would melt; the results past that point are meaningless",
+                self.name
+            )),
+            (_, Some(s)) if temperature_c > s => Some(format!(
+                "{what} reaches {temperature_c:.0} °C, above the softening point of {} \
+                 ({s:.0} °C): the fin loses its temper and strength",
+                self.name
+            )),
+            _ => None,
+        }
+    }
 }
 
 impl Material {
@@ -54,8 +78,11 @@ fn alloy(
     density_kg_m3: f64,
     specific_heat: f64,
     source: &str,
+    (softening_c, solidus_c): (Option<f64>, f64),
 ) -> Material {
     Material {
+        softening_c,
+        solidus_c: Some(solidus_c),
         name: name.to_string(),
         conductivity_s_m: iacs(percent_iacs),
         temp_coeff_per_k: ALUMINIUM_61_TEMP_COEFF_PER_K * percent_iacs / 61.0,
@@ -75,8 +102,11 @@ pub fn builtin() -> Vec<Material> {
             density_kg_m3: 8890.0,
             specific_heat_j_kg_k: 385.0,
             source: "100 % IACS = 58.0 MS/m and α = 0.00393 /K (IEC 60028); density 8.89 g/cm³ and \
-                     c_p 385 J/(kg·K) (ASM Handbook Vol. 2, C11000)"
+                     c_p 385 J/(kg·K) (ASM Handbook Vol. 2, C11000); softening ~200 °C (cold-worked \
+                     tempers anneal) and solidus 1065 °C, from memory"
                 .into(),
+            softening_c: Some(200.0),
+            solidus_c: Some(1065.0),
         },
         alloy(
             "aluminium-1350",
@@ -84,28 +114,32 @@ pub fn builtin() -> Vec<Material> {
             2705.0,
             900.0,
             "61.8 % IACS typical, ≥ 61.0 % (ASTM B233); α = 0.00403 /K; density 2.705 g/cm³, c_p 900 J/(kg·K) \
-             (ASM Handbook Vol. 2)",
+             (ASM Handbook Vol. 2); solidus 646 °C (from memory)",
+            (None, 646.0),
         ),
         alloy(
             "aluminium-6061-t6",
             43.0,
             2700.0,
             896.0,
-            "43 % IACS, density 2.70 g/cm³, c_p 896 J/(kg·K) (ASM Handbook Vol. 2, 6061-T6); α scaled from 61 % IACS",
+            "43 % IACS, density 2.70 g/cm³, c_p 896 J/(kg·K) (ASM Handbook Vol. 2, 6061-T6); α scaled from 61 % IACS; T6 softens above ~175 °C, solidus 582 °C (from memory)",
+            (Some(175.0), 582.0),
         ),
         alloy(
             "aluminium-6063-t6",
             53.0,
             2690.0,
             900.0,
-            "53 % IACS, density 2.69 g/cm³, c_p 900 J/(kg·K) (ASM Handbook Vol. 2, 6063-T6); α scaled from 61 % IACS",
+            "53 % IACS, density 2.69 g/cm³, c_p 900 J/(kg·K) (ASM Handbook Vol. 2, 6063-T6); α scaled from 61 % IACS; T6 softens above ~175 °C, solidus 616 °C (from memory)",
+            (Some(175.0), 616.0),
         ),
         alloy(
             "aluminium-5083-o",
             29.0,
             2660.0,
             900.0,
-            "29 % IACS, density 2.66 g/cm³, c_p 900 J/(kg·K) (ASM Handbook Vol. 2, 5083-O); α scaled from 61 % IACS",
+            "29 % IACS, density 2.66 g/cm³, c_p 900 J/(kg·K) (ASM Handbook Vol. 2, 5083-O); α scaled from 61 % IACS; annealed (no temper to lose), solidus 574 °C (from memory)",
+            (None, 574.0),
         ),
     ]
 }

@@ -4,8 +4,9 @@ use super::emit;
 use super::error::{Error, EXIT_OK};
 use super::progress::Bar;
 use clap::Args;
+use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::report::json_out::{pretty, HeatJson};
-use eddyzone::report::{csv_out, terminal, write_files};
+use eddyzone::report::{csv_out, terminal};
 use eddyzone::study::Study;
 use eddyzone::thermal::HeatOptions;
 use std::path::PathBuf;
@@ -30,7 +31,7 @@ pub fn execute(a: &HeatArgs) -> Result<i32, Error> {
     bar.finish();
     let heats = heats?;
     if let Some(dir) = &a.profile {
-        write_files(dir, &csv_out::heat_profiles(&heats)?)?;
+        write_folder(dir, &csv_out::heat_profiles(&heats)?, Placement::Merge)?;
     }
     let s = study.scenario();
     if a.input.json {

@@ -7,8 +7,8 @@ use super::progress::Bar;
 use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
 use eddyzone::report::bundle::{report_bundle, ReportSource};
+use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::report::html::generation_stamp;
-use eddyzone::report::write_files;
 use eddyzone::study::{HeatDemand, JudgeOptions, Study};
 use std::path::PathBuf;
 
@@ -20,7 +20,7 @@ pub struct ReportArgs {
     /// Folder to write the report into.
     #[arg(long)]
     pub out: PathBuf,
-    /// Overwrite files in an existing folder.
+    /// Replace an existing folder (as a whole: no file of the old report survives).
     #[arg(long)]
     pub force: bool,
 }
@@ -29,13 +29,15 @@ pub struct ReportArgs {
 pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
     if a.out.exists() && !a.force {
         return Err(Error::Usage(format!(
-            "--out: {} already exists; pass --force to overwrite its files",
+            "--out: {} already exists; pass --force to replace it",
             a.out.display()
         )));
     }
-    let input = std::fs::read(&a.scenario)
+    // Loading checks the file (regular, bounded) before its bytes are read for the digest.
+    let scenario = load(&a.scenario, None)?;
+    let input = eddyzone::scenario::validate::read_input(&a.scenario)
         .map_err(|e| Error::Usage(format!("{}: {e}", a.scenario.display())))?;
-    let study = Study::new(load(&a.scenario, None)?)?;
+    let study = Study::new(scenario)?;
     let options = JudgeOptions {
         run: RunOptions {
             sampling: Sampling::Full,
@@ -57,11 +59,11 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
             .file_name()
             .map(|n| n.to_string_lossy().into_owned())
             .unwrap_or_default(),
-        input_bytes: &input,
+        input_bytes: input.as_bytes(),
         generated: generation_stamp(),
     };
     let bundle = report_bundle(&study, &judged, &source)?;
-    write_files(&a.out, &bundle.files)?;
+    write_folder(&a.out, &bundle.files, Placement::Replace)?;
     eprintln!(
         "wrote {} ({} figures, {} profiles): {}",
         a.out.join("report.html").display(),

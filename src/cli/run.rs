@@ -4,8 +4,9 @@ use super::emit;
 use super::error::{Error, EXIT_OK};
 use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
+use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::report::json_out::{pretty, RunJson};
-use eddyzone::report::{csv_out, terminal, write_files};
+use eddyzone::report::{csv_out, terminal};
 use eddyzone::study::Study;
 use std::path::PathBuf;
 
@@ -43,7 +44,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
     };
     let results = study.run(&options)?;
     if let Some(dir) = &a.profile {
-        write_files(dir, &csv_out::run_profiles(&results, "")?)?;
+        write_folder(dir, &csv_out::run_profiles(&results, "")?, Placement::Merge)?;
     }
     let name = &study.scenario().name;
     if a.input.json {

@@ -62,8 +62,18 @@
 //! speed, it adds at least 1e-6/16 of the fundamental, so that the at most 15 omitted terms
 //! together stay below 1e-6 of the sum (the brief's "stop when a term adds < 1e-6" rule, made
 //! speed-independent).
+//!
+//! # Finite height
+//!
+//! σ_e above is the conductivity the layer sees. With the default [`EdgeModel::FiniteHeight`]
+//! it is the bulk σ, and each harmonic's force is multiplied by the finite-height factor
+//! F_n(σv) of [`super::edge`] (Russell–Norsworthy K_n at low speed, the full thin-sheet solution
+//! of the finite fin at speed): f_n = F_n(σv)·f_n,layer(σ). With
+//! [`EdgeModel::RussellNorsworthyConductivity`] σ_e = K_n·σ at every speed and F_n = 1 (the model
+//! before the finite-height factor, kept for comparison). Either way the force depends on σ and
+//! v only through σ·v, and on Br as Br².
 
-use super::edge::russell_norsworthy;
+use super::edge::{russell_norsworthy, EdgeModel, FiniteHeightEdge};
 use super::field::{gap_centre_amplitude_t, sinh_cosh_ratio, source_amplitude_t, wavenumber_per_m};
 use super::{positive, BrakeGeometry, PhysicsError};
 use crate::constants::MU0_H_M;
@@ -104,9 +114,10 @@ pub struct HarmonicTerm {
     pub source_amplitude_t: f64,
     /// No-load flux density B_0n across the gap at its centre, T (signed).
     pub gap_field_t: f64,
-    /// Russell–Norsworthy edge factor K_n, dimensionless.
+    /// Russell–Norsworthy edge factor K_n, dimensionless (the low-speed finite-height factor).
     pub edge_factor: f64,
-    /// Effective conductivity σ_e = K_n·σ used for this harmonic, S/m.
+    /// Conductivity σ_e the layer solution uses for this harmonic, S/m: the bulk σ with
+    /// [`EdgeModel::FiniteHeight`], K_n·σ with [`EdgeModel::RussellNorsworthyConductivity`].
     pub effective_conductivity_s_m: f64,
     /// k², 1/m².
     k_sq: f64,
@@ -122,7 +133,13 @@ pub struct HarmonicTerm {
 
 impl HarmonicTerm {
     /// Builds harmonic `order` for a validated geometry, remanence (T) and conductivity (S/m).
-    fn new(geometry: &BrakeGeometry, remanence_t: f64, conductivity_s_m: f64, order: u32) -> Self {
+    fn new(
+        geometry: &BrakeGeometry,
+        remanence_t: f64,
+        conductivity_s_m: f64,
+        order: u32,
+        edge_model: EdgeModel,
+    ) -> Self {
         let k = wavenumber_per_m(geometry.pole_pitch_m, order);
         let u = geometry.half_fin_thickness_m();
         let l = geometry.fin_face_to_iron_m();
@@ -131,7 +148,10 @@ impl HarmonicTerm {
         let b_rn = source_amplitude_t(remanence_t, geometry.magnet_fill, order);
         let edge_factor =
             russell_norsworthy(k, 0.5 * geometry.active_height_m(), geometry.overhang_m());
-        let sigma_e = edge_factor * conductivity_s_m;
+        let sigma_e = match edge_model {
+            EdgeModel::FiniteHeight => conductivity_s_m,
+            EdgeModel::RussellNorsworthyConductivity => edge_factor * conductivity_s_m,
+        };
         let r = sinh_cosh_ratio(k * h_m, k * l);
         HarmonicTerm {
             order,
@@ -208,6 +228,12 @@ impl HarmonicTerm {
         }
     }
 
+    /// The layer force f_n of this harmonic alone in Pa at `speed_m_s` (m/s, odd in v), without
+    /// any finite-height factor: the force of a tall fin with the conductivity σ_e of this term.
+    pub fn layer_force_per_area_pa(&self, speed_m_s: f64) -> f64 {
+        self.force(speed_m_s)
+    }
+
     /// f_n in Pa at signed speed (odd in v).
     #[inline]
     fn force(&self, speed_m_s: f64) -> f64 {
@@ -219,13 +245,18 @@ impl HarmonicTerm {
 }
 
 /// The drag model of one brake section: geometry, magnet remanence and fin conductivity, with all
-/// harmonic constants, the critical speed and the low-speed coefficient precomputed.
+/// harmonic constants, the finite-height factors, the critical speed and the low-speed
+/// coefficient precomputed.
 #[derive(Clone, Debug)]
 pub struct DragModel {
     geometry: BrakeGeometry,
     remanence_t: f64,
     conductivity_s_m: f64,
+    edge_model: EdgeModel,
     terms: Vec<HarmonicTerm>,
+    /// Finite-height factor of each term (same order as `terms`); empty for
+    /// [`EdgeModel::RussellNorsworthyConductivity`].
+    edges: Vec<FiniteHeightEdge>,
     critical_speed_m_s: f64,
     peak_force_per_area_pa: f64,
     low_speed_coefficient_pa_s_m: f64,
@@ -233,7 +264,8 @@ pub struct DragModel {
 
 impl DragModel {
     /// Builds the model for `geometry`, magnet remanence `remanence_t` (T, > 0) and fin
-    /// conductivity `conductivity_s_m` (S/m, > 0, the bulk value at the fin temperature).
+    /// conductivity `conductivity_s_m` (S/m, > 0, the bulk value at the fin temperature), with
+    /// the finite-height edge factor ([`EdgeModel::FiniteHeight`]).
     ///
     /// Fails on invalid geometry or values, and with [`PhysicsError::Degenerate`] when the
     /// inputs are so extreme that the model's constants are not finite or the force vanishes.
@@ -242,11 +274,26 @@ impl DragModel {
         remanence_t: f64,
         conductivity_s_m: f64,
     ) -> Result<Self, PhysicsError> {
+        Self::with_edge_model(
+            geometry,
+            remanence_t,
+            conductivity_s_m,
+            EdgeModel::FiniteHeight,
+        )
+    }
+
+    /// As [`DragModel::new`] with a chosen treatment of the finite height.
+    pub fn with_edge_model(
+        geometry: &BrakeGeometry,
+        remanence_t: f64,
+        conductivity_s_m: f64,
+        edge_model: EdgeModel,
+    ) -> Result<Self, PhysicsError> {
         geometry.validate()?;
         positive("magnet remanence", remanence_t)?;
         positive("fin conductivity", conductivity_s_m)?;
 
-        let fundamental = HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, 1);
+        let fundamental = HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, 1, edge_model);
         if !fundamental.is_finite() {
             return Err(PhysicsError::Degenerate {
                 what: "the fundamental harmonic",
@@ -263,39 +310,57 @@ impl DragModel {
         }
 
         // Harmonic selection on a log grid 1e-4 … 1e8 × the reference speed (16 per decade).
+        // With the finite-height factor each layer term is weighed by its low-speed factor K_n
+        // against the fundamental's layer term: F_n ≥ K_n and F_1 stays within a factor 1.3 of
+        // 1, so the omitted terms stay near the 1e-6 target.
+        let weight = |t: &HarmonicTerm| match edge_model {
+            EdgeModel::FiniteHeight => t.edge_factor,
+            EdgeModel::RussellNorsworthyConductivity => 1.0,
+        };
         let scan: Vec<f64> = (-64..=128)
             .map(|i| reference_speed_m_s * 10f64.powf(f64::from(i) / 16.0))
             .collect();
         let base: Vec<f64> = scan
             .iter()
-            .map(|&v| fundamental.force_over_speed(v))
+            .map(|&v| fundamental.force_over_speed(v) * weight(&fundamental))
             .collect();
         let mut terms = vec![fundamental];
         for order in (3..=HIGHEST_HARMONIC).step_by(2) {
-            let term = HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, order);
+            let term =
+                HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, order, edge_model);
             if !term.is_finite() {
                 continue;
             }
             let keep = scan
                 .iter()
                 .zip(&base)
-                .any(|(&v, &b)| term.force_over_speed(v) >= TERM_THRESHOLD * b);
+                .any(|(&v, &b)| term.force_over_speed(v) * weight(&term) >= TERM_THRESHOLD * b);
             if keep {
                 terms.push(term);
             }
         }
+        let edges = match edge_model {
+            EdgeModel::FiniteHeight => terms
+                .iter()
+                .map(|t| FiniteHeightEdge::new(geometry, t.order))
+                .collect::<Result<Vec<_>, _>>()?,
+            EdgeModel::RussellNorsworthyConductivity => Vec::new(),
+        };
 
         let mut model = DragModel {
             geometry: *geometry,
             remanence_t,
             conductivity_s_m,
+            edge_model,
             terms,
+            edges,
             critical_speed_m_s: 0.0,
             peak_force_per_area_pa: 0.0,
             low_speed_coefficient_pa_s_m: 0.0,
         };
-        model.low_speed_coefficient_pa_s_m =
-            model.terms.iter().map(|t| t.force_over_speed(0.0)).sum();
+        model.low_speed_coefficient_pa_s_m = (0..model.terms.len())
+            .map(|i| model.term_force_over_speed(i, 0.0))
+            .sum();
         let critical = model.search_critical_speed(reference_speed_m_s);
         let peak = model.force_per_area_pa(critical);
         if !(critical.is_finite()
@@ -311,6 +376,16 @@ impl DragModel {
         model.critical_speed_m_s = critical;
         model.peak_force_per_area_pa = peak;
         Ok(model)
+    }
+
+    /// f_n/v of kept term `index` at speed `speed_abs_m_s` ≥ 0, edge factor included, Pa·s/m.
+    #[inline]
+    fn term_force_over_speed(&self, index: usize, speed_abs_m_s: f64) -> f64 {
+        let layer = self.terms[index].force_over_speed(speed_abs_m_s);
+        match self.edges.get(index) {
+            Some(edge) => layer * edge.factor(self.conductivity_s_m * speed_abs_m_s),
+            None => layer,
+        }
     }
 
     /// Speed of the maximum of the harmonic sum: a scan at 16 points per decade over
@@ -373,30 +448,92 @@ impl DragModel {
             return 0.0;
         }
         let x = speed_m_s.abs();
-        let sum: f64 = self.terms.iter().map(|t| t.force_over_speed(x)).sum();
+        let sum: f64 = (0..self.terms.len())
+            .map(|i| self.term_force_over_speed(i, x))
+            .sum();
         speed_m_s * sum
     }
 
     /// Drag force per unit area in Pa of the fundamental harmonic alone, at `speed_m_s` (m/s).
     pub fn force_per_area_fundamental_pa(&self, speed_m_s: f64) -> f64 {
-        self.terms
-            .first()
-            .map_or(0.0, |fundamental| fundamental.force(speed_m_s))
+        if self.terms.is_empty() || speed_m_s.is_infinite() {
+            return 0.0;
+        }
+        speed_m_s * self.term_force_over_speed(0, speed_m_s.abs())
     }
 
     /// Drag force per unit area in Pa of harmonic `order` alone (odd, whether or not it is kept
-    /// in the sum), at `speed_m_s` (m/s); 0 for even orders.
+    /// in the sum), at `speed_m_s` (m/s); 0 for even orders. A harmonic that is not kept gets its
+    /// finite-height factor built on the spot (NaN if that fails).
     pub fn force_per_area_harmonic_pa(&self, order: u32, speed_m_s: f64) -> f64 {
         if order.is_multiple_of(2) {
             return 0.0;
+        }
+        if let Some(i) = self.terms.iter().position(|t| t.order == order) {
+            if speed_m_s.is_infinite() {
+                return 0.0;
+            }
+            return speed_m_s * self.term_force_over_speed(i, speed_m_s.abs());
         }
         let term = HarmonicTerm::new(
             &self.geometry,
             self.remanence_t,
             self.conductivity_s_m,
             order,
+            self.edge_model,
         );
-        term.force(speed_m_s)
+        let factor = match self.edge_model {
+            EdgeModel::FiniteHeight => FiniteHeightEdge::new(&self.geometry, order)
+                .map_or(f64::NAN, |e| e.factor(self.conductivity_s_m * speed_m_s)),
+            EdgeModel::RussellNorsworthyConductivity => 1.0,
+        };
+        term.force(speed_m_s) * factor
+    }
+
+    /// Drag force per unit area in Pa at `speed_m_s` (m/s) of the same section with an infinitely
+    /// tall fin and poles (no edge effect): the layer sum with the bulk conductivity over the
+    /// kept harmonics. The reference of [`DragModel::edge_factor_at`].
+    pub fn force_per_area_tall_fin_pa(&self, speed_m_s: f64) -> f64 {
+        self.terms
+            .iter()
+            .map(|t| {
+                HarmonicTerm::new(
+                    &self.geometry,
+                    self.remanence_t,
+                    self.conductivity_s_m,
+                    t.order,
+                    EdgeModel::FiniteHeight,
+                )
+                .force(speed_m_s)
+            })
+            .sum()
+    }
+
+    /// The edge factor of the whole force at `speed_m_s` (m/s): force per area over the force
+    /// per area of the same section with a tall fin ([`DragModel::force_per_area_tall_fin_pa`]),
+    /// dimensionless. At rest it is the low-speed limit (the K_n weighted by the harmonics'
+    /// low-speed coefficients).
+    pub fn edge_factor_at(&self, speed_m_s: f64) -> f64 {
+        let v = if speed_m_s == 0.0 {
+            1e-9 * self.critical_speed_m_s
+        } else {
+            speed_m_s
+        };
+        self.force_per_area_pa(v) / self.force_per_area_tall_fin_pa(v)
+    }
+
+    /// The finite-height factor of harmonic `order` if it is kept and the model uses
+    /// [`EdgeModel::FiniteHeight`].
+    pub fn finite_height_edge(&self, order: u32) -> Option<&FiniteHeightEdge> {
+        self.terms
+            .iter()
+            .position(|t| t.order == order)
+            .and_then(|i| self.edges.get(i))
+    }
+
+    /// The treatment of the finite height this model uses.
+    pub fn edge_model(&self) -> EdgeModel {
+        self.edge_model
     }
 
     /// Drag force per metre of overlap length in N/m at `speed_m_s` (m/s): force per area × active
@@ -416,7 +553,8 @@ impl DragModel {
         &self.terms
     }
 
-    /// Russell–Norsworthy edge factor of the fundamental, K_1, dimensionless.
+    /// Russell–Norsworthy edge factor of the fundamental, K_1, dimensionless: the low-speed edge
+    /// factor (see [`DragModel::edge_factor_at`] for the factor at speed).
     pub fn edge_factor(&self) -> f64 {
         self.terms.first().map_or(0.0, |t| t.edge_factor)
     }
@@ -438,7 +576,7 @@ impl DragModel {
     }
 
     /// Low-speed coefficient lim_{v→0} f/v of the harmonic sum, in Pa·s/m:
-    /// Σ σ_e,n·B_0n²·½·[d/2 + sinh(k_n d)/(2k_n)].
+    /// Σ K_n·σ·B_0n²·½·[d/2 + sinh(k_n d)/(2k_n)] (either edge model).
     pub fn low_speed_coefficient_pa_s_m(&self) -> f64 {
         self.low_speed_coefficient_pa_s_m
     }
@@ -477,11 +615,11 @@ mod tests {
 
     /// The closed form of the brief, written out term by term with complex sinh/cosh from
     /// num-complex, for comparison with the rearranged, overflow-safe evaluation.
-    fn brief_formula(g: &BrakeGeometry, br: f64, sigma: f64, n: u32, v: f64) -> f64 {
+    fn brief_formula(g: &BrakeGeometry, br: f64, sigma: f64, n: u32, v: f64, rn: bool) -> f64 {
         let k = wavenumber_per_m(g.pole_pitch_m, n);
         let b_rn = source_amplitude_t(br, g.magnet_fill, n);
         let ke = russell_norsworthy(k, 0.5 * g.active_height_m(), g.overhang_m());
-        let se = sigma * ke;
+        let se = if rn { sigma * ke } else { sigma };
         let (u, l, h) = (
             g.half_fin_thickness_m(),
             g.fin_face_to_iron_m(),
@@ -503,14 +641,28 @@ mod tests {
 
     #[test]
     fn rearranged_evaluation_matches_the_closed_form() {
-        // Same formula, two arrangements; 1e-12 relative (rounding only).
+        // Same formula, two arrangements; 1e-12 relative (rounding only). The layer terms use
+        // the bulk σ with the finite-height factor and K_n·σ with the old edge model.
         let g = typical_geometry();
-        let m = copper();
-        for &v in &[1e-3, 0.3, 3.0, 30.0, 300.0] {
-            for t in m.harmonics() {
-                let direct = brief_formula(&g, 1.25, 58e6, t.order, v);
-                let fast = t.force(v);
-                assert!((fast / direct - 1.0).abs() < 1e-12, "n={} v={v}", t.order);
+        for (model, rn) in [
+            (copper(), false),
+            (
+                DragModel::with_edge_model(
+                    &g,
+                    1.25,
+                    58e6,
+                    EdgeModel::RussellNorsworthyConductivity,
+                )
+                .expect("valid"),
+                true,
+            ),
+        ] {
+            for &v in &[1e-3, 0.3, 3.0, 30.0, 300.0] {
+                for t in model.harmonics() {
+                    let direct = brief_formula(&g, 1.25, 58e6, t.order, v, rn);
+                    let fast = t.force(v);
+                    assert!((fast / direct - 1.0).abs() < 1e-12, "n={} v={v}", t.order);
+                }
             }
         }
     }

@@ -13,20 +13,28 @@
 //! harmonic (2-D layer theory, derived in [`layer`] from the diffusion equation; the same
 //! transfer-relation treatment of conducting layers is in J. R. Melcher, *Continuum
 //! Electromechanics*, MIT Press, 1981, ch. 6, cited from memory), so skin effect and field
-//! exclusion at speed are part of the result. [`edge`] corrects the
-//! conductivity for the finite fin height (Russell & Norsworthy, Proc. IEE 105A, 1958). [`table`]
+//! exclusion at speed are part of the result. [`edge`] multiplies each harmonic by the
+//! finite-height factor of fin and poles, derived there from the thin-sheet problem of a fin of
+//! finite height between the iron planes at every speed (it reduces to the Russell & Norsworthy
+//! conductivity factor, Proc. IEE 105A, 1958, at low speed). [`table`]
 //! turns the model into a fast interpolant for the equations of motion, and [`measured`]
 //! interpolates a measured force curve that replaces the model for a section.
 //!
 //! Units are SI throughout: metres, tesla, siemens per metre, metres per second, pascal (N/m²).
 
 pub mod edge;
+mod eigen;
+pub mod ends;
 pub mod field;
+pub mod fin_ends;
 pub mod layer;
 pub mod measured;
+mod quadrature;
 pub mod table;
 
-pub use edge::russell_norsworthy;
+pub use edge::{russell_norsworthy, EdgeModel, EdgeResolution, FiniteHeightEdge};
+pub use ends::{section_end_lengths, EndLengths, EndTable};
+pub use fin_ends::{fin_end_lengths, FinEndLengths, FinEndTable};
 pub use layer::{skin_depth_m, DragModel, HarmonicTerm};
 pub use measured::MeasuredCurve;
 pub use table::ForceTable;

@@ -1,6 +1,6 @@
 //! CSV writers: force–speed curves and run profiles.
 
-use super::{file_stem, OutputFile};
+use super::{unique_stems, OutputFile};
 use crate::curve::PairCurve;
 use crate::dynamics::{RunResult, Sample};
 use crate::thermal::{CaseHeat, TrackProfile};
@@ -54,7 +54,10 @@ pub fn curves_csv(curves: &[PairCurve]) -> Result<Vec<u8>, csv::Error> {
 }
 
 /// A run profile as CSV; `extra` adds columns (name, value per sample).
-pub fn profile_csv(samples: &[Sample], extra: &[(&str, Vec<f64>)]) -> Result<Vec<u8>, csv::Error> {
+pub fn profile_csv(
+    samples: &[Sample],
+    extra: &[(&str, Vec<Option<f64>>)],
+) -> Result<Vec<u8>, csv::Error> {
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<&str> = PROFILE_HEADER.to_vec();
     header.extend(extra.iter().map(|e| e.0));
@@ -72,7 +75,13 @@ pub fn profile_csv(samples: &[Sample], extra: &[(&str, Vec<f64>)]) -> Result<Vec
             format!("{}", s.overlap_m),
         ];
         for e in extra {
-            rec.push(e.1.get(i).map(|v| format!("{v}")).unwrap_or_default());
+            rec.push(
+                e.1.get(i)
+                    .copied()
+                    .flatten()
+                    .map(|v| format!("{v}"))
+                    .unwrap_or_default(),
+            );
         }
         w.write_record(&rec)?;
     }
@@ -81,11 +90,13 @@ pub fn profile_csv(samples: &[Sample], extra: &[(&str, Vec<f64>)]) -> Result<Vec
 
 /// One profile CSV per run, named `<prefix><case>.csv`.
 pub fn run_profiles(results: &[RunResult], prefix: &str) -> Result<Vec<OutputFile>, csv::Error> {
+    let stems = unique_stems(&results.iter().map(|r| &r.case).collect::<Vec<_>>());
     results
         .iter()
-        .map(|r| {
+        .zip(stems)
+        .map(|(r, stem)| {
             Ok(OutputFile {
-                name: format!("{prefix}{}.csv", file_stem(&r.case)),
+                name: format!("{prefix}{stem}.csv"),
                 bytes: profile_csv(&r.samples, &[])?,
             })
         })
@@ -106,7 +117,7 @@ pub fn track_fin_csv(p: &TrackProfile) -> Result<Vec<u8>, csv::Error> {
 /// each track fin at the vehicle front's position as a column `<fin>_temp_c`) and the
 /// temperature along each track fin (`fin_<fin>_<case>.csv`).
 pub fn heat_profiles(heats: &[CaseHeat]) -> Result<Vec<OutputFile>, csv::Error> {
-    let mut out = Vec::new();
+    let mut files: Vec<(String, Vec<u8>)> = Vec::new();
     for h in heats {
         let Some(run) = &h.last_run else { continue };
         let names: Vec<String> = h
@@ -114,29 +125,30 @@ pub fn heat_profiles(heats: &[CaseHeat]) -> Result<Vec<OutputFile>, csv::Error> 
             .iter()
             .map(|p| format!("{}_temp_c", p.fin))
             .collect();
-        let extra: Vec<(&str, Vec<f64>)> = h
+        // Empty where the vehicle front is not over the fin: there is no temperature there.
+        let extra: Vec<(&str, Vec<Option<f64>>)> = h
             .track_profiles
             .iter()
             .zip(&names)
             .map(|(p, name)| {
-                let col = run
-                    .samples
-                    .iter()
-                    .map(|s| p.temp_at(s.s_m).unwrap_or(f64::NAN))
-                    .collect();
-                (name.as_str(), col)
+                (
+                    name.as_str(),
+                    run.samples.iter().map(|s| p.temp_at(s.s_m)).collect(),
+                )
             })
             .collect();
-        out.push(OutputFile {
-            name: format!("{}.csv", file_stem(&h.case)),
-            bytes: profile_csv(&run.samples, &extra)?,
-        });
+        files.push((h.case.clone(), profile_csv(&run.samples, &extra)?));
         for p in &h.track_profiles {
-            out.push(OutputFile {
-                name: format!("fin_{}_{}.csv", file_stem(&p.fin), file_stem(&h.case)),
-                bytes: track_fin_csv(p)?,
-            });
+            files.push((format!("fin_{}_{}", p.fin, h.case), track_fin_csv(p)?));
         }
     }
-    Ok(out)
+    let stems = unique_stems(&files.iter().map(|f| &f.0).collect::<Vec<_>>());
+    Ok(files
+        .into_iter()
+        .zip(stems)
+        .map(|((_, bytes), stem)| OutputFile {
+            name: format!("{stem}.csv"),
+            bytes,
+        })
+        .collect())
 }

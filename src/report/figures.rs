@@ -443,9 +443,11 @@ pub fn all_figures(
             chart: sustained(s, runs),
         },
     ];
-    for (stem, chart) in force_speed(curves, runs) {
+    let designs = force_speed(curves, runs);
+    let stems = crate::report::unique_stems(&designs.iter().map(|d| &d.0).collect::<Vec<_>>());
+    for ((_, chart), stem) in designs.into_iter().zip(stems) {
         v.push(Figure {
-            id: format!("force-speed-{}", crate::report::file_stem(&stem)),
+            id: format!("force-speed-{stem}"),
             caption: "Drag force per overlap area against speed at the first case's \
                       temperatures; solid: harmonic sum, dashed: fundamental; dotted: critical \
                       speed; shaded: speeds the runs met in the zone."

@@ -6,6 +6,8 @@ pub mod bundle;
 pub mod csv_out;
 /// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
 pub mod figures;
+/// Output folders written as a whole, under a lock.
+pub mod folder;
 /// The self-contained HTML report.
 pub mod html;
 /// JSON documents printed by `--json`.
@@ -41,6 +43,16 @@ pub enum OutputError {
     /// A scenario could not be written faithfully.
     #[error("writing the scenario: {0}")]
     Scenario(#[from] crate::scenario::write::WriteError),
+    /// Another run is writing the same output folder.
+    #[error(
+        "{}: another eddyzone run is writing this folder now; wait for it (or check that none is \
+         running)",
+        path.display()
+    )]
+    Busy {
+        /// The folder.
+        path: PathBuf,
+    },
     /// A file or folder could not be written.
     #[error("{}: {source}", path.display())]
     Write {
@@ -77,14 +89,6 @@ pub fn make_dir(dir: &Path) -> Result<(), OutputError> {
     })
 }
 
-/// Writes `files` into `dir` (created when missing).
-pub fn write_files(dir: &Path, files: &[OutputFile]) -> Result<(), OutputError> {
-    make_dir(dir)?;
-    files
-        .iter()
-        .try_for_each(|f| write_file(&dir.join(&f.name), &f.bytes))
-}
-
 /// The caution printed by `check` and carried by the README and the report.
 pub const CAUTION: &str = "CAUTION: eddyzone is a concept-stage design aid. Passenger-carrying devices need physical \
 testing and sign-off under the applicable standards (e.g. ASTM F2291, EN 13814) and local codes by licensed \
@@ -111,6 +115,40 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     }
     tmp.persist(path).map_err(|e| e.error)?;
     Ok(())
+}
+
+/// Longest file-name stem written (bytes); a longer name is shortened and made unique with a
+/// hash of the whole name.
+pub const MAX_STEM: usize = 64;
+
+/// Safe file-name stems for names (cases, fins, designs), in order: letters, digits, `-` and `_`
+/// kept, anything else `_`; a stem longer than [`MAX_STEM`] is cut and suffixed with eight hex
+/// digits of the name's SHA-256; stems that would collide (case-insensitively, for file systems
+/// that fold case) get `-2`, `-3`, … in order of appearance.
+pub fn unique_stems<S: AsRef<str>>(names: &[S]) -> Vec<String> {
+    use sha2::{Digest, Sha256};
+    let mut seen: std::collections::HashSet<String> = std::collections::HashSet::new();
+    names
+        .iter()
+        .map(|n| {
+            let n = n.as_ref();
+            let mut stem = file_stem(n);
+            if stem.len() > MAX_STEM {
+                let h: String = Sha256::digest(n.as_bytes())[..4]
+                    .iter()
+                    .map(|b| format!("{b:02x}"))
+                    .collect();
+                stem = format!("{}-{h}", &stem[..MAX_STEM - 9]);
+            }
+            let mut candidate = stem.clone();
+            let mut k = 2;
+            while !seen.insert(candidate.to_lowercase()) {
+                candidate = format!("{stem}-{k}");
+                k += 1;
+            }
+            candidate
+        })
+        .collect()
 }
 
 /// A safe file-name stem for a case or section name.

@@ -69,6 +69,10 @@ pub const FILTER_SAMPLE_RATE_HZ: f64 = 1000.0;
 /// common practice: a 10 ms central difference changes the slope of a 5 Hz signal by 0.4 %).
 pub const RATE_WINDOW_S: f64 = 0.01;
 
+/// Cell length along track fins for the heat of a pass, m (a tenth of a typical magnet unit,
+/// finer than the temperature gradients a pass leaves; project choice).
+pub const HEAT_CELL_M: f64 = 0.05;
+
 /// Slope |dz/ds| above which the default rider axis along the track is `z` (along the spine,
 /// towers) rather than `x` (fore–aft, seated) (project convention: steeper than about 64°).
 pub const STEEP_SLOPE: f64 = 0.9;

@@ -2,6 +2,7 @@
 //! module), generated load cases (`cases`), every default of the format (`defaults`) and the
 //! writer back to YAML (`write`). Only the validated model reaches physics.
 
+pub mod bounds;
 pub mod cases;
 pub mod defaults;
 pub mod raw;

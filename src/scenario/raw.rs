@@ -176,6 +176,12 @@ pub struct RawMaterial {
     /// Where the values come from.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub source: Option<String>,
+    /// Softening point (a warning above it).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub softening: Option<Q>,
+    /// Solidus (a warning at or above it).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub solidus: Option<Q>,
 }
 
 /// The vehicle.

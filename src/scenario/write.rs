@@ -227,6 +227,12 @@ impl Writer<'_> {
                         m.specific_heat_j_kg_k,
                     ),
                     source: Some(m.source.clone()),
+                    softening: m
+                        .softening_c
+                        .map(|t| self.q(&format!("{p}.softening"), Kind::Temperature, t)),
+                    solidus: m
+                        .solidus_c
+                        .map(|t| self.q(&format!("{p}.solidus"), Kind::Temperature, t)),
                 };
                 (m.name.clone(), raw)
             })

@@ -30,6 +30,94 @@ pub enum StudyError {
     /// A heat calculation failed.
     #[error(transparent)]
     Thermal(#[from] ThermalError),
+    /// A result came out as NaN or infinite: never printed as a number.
+    #[error("case '{case}': {quantity} is not a finite number; the computation cannot be trusted")]
+    NotFinite {
+        /// The case.
+        case: String,
+        /// The quantity.
+        quantity: String,
+    },
+}
+
+/// The first quantity of a run that is not finite, if any.
+fn non_finite_run(r: &RunResult) -> Option<String> {
+    let optional = [
+        ("entry speed", r.entry_speed_m_s),
+        ("exit speed", r.exit_speed_m_s),
+        ("lowest speed", r.min_speed_m_s),
+        ("stall position", r.stall_position_m),
+        ("peak deceleration", r.peak_decel_m_s2),
+        ("time of the peak", r.peak_decel_time_s),
+        ("position of the peak", r.peak_decel_position_m),
+        ("onset", r.peak_onset_g_s),
+        ("time in the zone", r.time_in_zone_s),
+    ];
+    let plain = [
+        ("braking energy", r.braking_energy_j),
+        ("resistance energy", r.resistance_energy_j),
+        ("energy residual", r.energy_residual_j),
+        ("initial energy", r.initial_energy_j),
+        ("peak brake force", r.peak_brake_force_n),
+        ("end time", r.end_time_s),
+    ];
+    optional
+        .iter()
+        .filter_map(|(n, v)| v.map(|v| (*n, v)))
+        .chain(plain)
+        .find(|(_, v)| !v.is_finite())
+        .map(|(n, _)| n.to_string())
+        .or_else(|| {
+            r.fins
+                .iter()
+                .find(|f| ![f.energy_j, f.end_temp_c].iter().all(|v| v.is_finite()))
+                .map(|f| format!("the heat of fin '{}'", f.fin))
+        })
+        .or_else(|| {
+            r.samples
+                .iter()
+                .position(|s| {
+                    ![s.t_s, s.s_m, s.v_m_s, s.a_m_s2, s.brake_force_n]
+                        .iter()
+                        .all(|v| v.is_finite())
+                })
+                .map(|k| format!("sample {k} of the profile"))
+        })
+}
+
+/// The first quantity of a heat result that is not finite, if any.
+fn non_finite_heat(h: &CaseHeat) -> Option<String> {
+    let fins = h.fins.iter().find_map(|f| {
+        [
+            f.energy_per_pass_j,
+            f.peak_temperature_c,
+            f.steady_peak_temperature_c,
+            f.steady_start_temperature_c,
+        ]
+        .iter()
+        .any(|v| !v.is_finite())
+        .then(|| format!("the temperature of fin '{}'", f.fin))
+    });
+    fins.or_else(|| {
+        h.track_profiles.iter().find_map(|p| {
+            p.temps
+                .iter()
+                .any(|(s, t)| !s.is_finite() || !t.is_finite())
+                .then(|| format!("the temperature along fin '{}'", p.fin))
+        })
+    })
+    .or_else(|| h.last_run.as_ref().and_then(non_finite_run))
+}
+
+/// Every run finite, or the first case and quantity that is not.
+fn all_finite_runs(runs: Vec<RunResult>) -> Result<Vec<RunResult>, StudyError> {
+    match runs
+        .iter()
+        .find_map(|r| non_finite_run(r).map(|q| (r.case.clone(), q)))
+    {
+        Some((case, quantity)) => Err(StudyError::NotFinite { case, quantity }),
+        None => Ok(runs),
+    }
 }
 
 /// When the fin heat is computed by [`Study::judge`].
@@ -102,13 +190,24 @@ impl Study {
         self.scenario
     }
 
-    /// Runs every case (in parallel), results in case order.
+    /// Runs every case (in parallel), results in case order. A vehicle fin heated past its
+    /// material's softening point or solidus adds a warning to its run.
     pub fn run(&self, options: &RunOptions) -> Result<Vec<RunResult>, StudyError> {
         let s = &self.scenario;
-        Ok(s.cases
-            .par_iter()
-            .map(|c| simulate_case(s, &self.tables, c, options))
-            .collect::<Result<Vec<_>, _>>()?)
+        let mut runs = all_finite_runs(
+            s.cases
+                .par_iter()
+                .map(|c| simulate_case(s, &self.tables, c, options))
+                .collect::<Result<Vec<_>, _>>()?,
+        )?;
+        for r in &mut runs {
+            for (f, h) in s.fins.iter().zip(&r.fins) {
+                let what = format!("fin '{}'", f.name);
+                r.warnings
+                    .extend(f.material.temperature_warning(&what, h.end_temp_c));
+            }
+        }
+        Ok(runs)
     }
 
     /// Fin heat of every case over one pass or the duty cycle (in parallel), in case order.
@@ -128,6 +227,12 @@ impl Study {
                 h
             })
             .collect::<Result<Vec<_>, _>>()?;
+        if let Some((case, quantity)) = out
+            .iter()
+            .find_map(|h| non_finite_heat(h).map(|q| (h.case.clone(), q)))
+        {
+            return Err(StudyError::NotFinite { case, quantity });
+        }
         Ok(out)
     }
 
@@ -168,6 +273,7 @@ impl Study {
                     simulate_case(s, &self.tables, c, &o)
                 })
                 .collect::<Result<_, _>>()?;
+            let steady_runs = all_finite_runs(steady_runs)?;
             let cases = s
                 .cases
                 .iter()
@@ -193,6 +299,18 @@ impl Study {
             let temps = judged_temperatures(s, &heat);
             (verdict(s, &runs, &temps), Vec::new())
         };
+        let mut verdict = verdict;
+        // Fins past their softening point or solidus, once each, in the verdict's warnings.
+        for w in heat
+            .iter()
+            .flat_map(|h| &h.warnings)
+            .chain(runs.iter().flat_map(|r| &r.warnings))
+            .filter(|w| w.contains("softening point") || w.contains("solidus"))
+        {
+            if !verdict.warnings.contains(w) {
+                verdict.warnings.push(w.clone());
+            }
+        }
         Ok(Judgement {
             runs,
             steady_runs,

@@ -374,6 +374,13 @@ pub fn heat_case(
             }
         }
     }
+    for (f, r) in scenario.fins.iter().zip(&fins) {
+        let what = format!("fin '{}'", f.name);
+        warnings.extend(
+            f.material
+                .temperature_warning(&what, r.steady_peak_temperature_c),
+        );
+    }
     warnings.extend(last.run.warnings.iter().cloned());
     let first_row = &cycles[0];
     let last_row = &cycles[cycles.len() - 1];

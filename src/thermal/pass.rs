@@ -29,7 +29,7 @@ use crate::scenario::{Case, Fin, Mount, Scenario};
 
 /// Default cell length along track fins, m (5 cm: a tenth of a typical magnet unit, finer than
 /// the temperature gradients a pass leaves).
-pub const DEFAULT_CELL_M: f64 = 0.05;
+pub const DEFAULT_CELL_M: f64 = crate::scenario::defaults::HEAT_CELL_M;
 
 /// The thermal state of a fin between passes.
 #[derive(Debug, Clone, PartialEq)]

@@ -1,6 +1,7 @@
 //! The duty block: repeated dispatches with Newton cooling between them.
 
 use super::Validator;
+use crate::scenario::bounds;
 use crate::scenario::raw::{CyclesText, RawDuty};
 use crate::scenario::{defaults, Cycles, Duty};
 use crate::units::Kind;
@@ -17,8 +18,12 @@ impl Validator {
         );
         let ambient = self.temperature(&d.ambient, "duty.ambient", defaults::TEMPERATURE_C);
         let max_cycles = match &d.max_cycles {
-            Some(m) if m.value == 0 || m.value > 100_000 => {
-                self.at(&m.referenced, "duty.max_cycles", "must be 1 to 100000");
+            Some(m) if m.value == 0 || m.value > bounds::MAX_CYCLES => {
+                self.at(
+                    &m.referenced,
+                    "duty.max_cycles",
+                    format!("must be 1 to {} dispatches", bounds::MAX_CYCLES),
+                );
                 None
             }
             Some(m) => Some(m.value),
@@ -29,9 +34,15 @@ impl Validator {
                 max_cycles: max_cycles?,
             }),
             Some(c) => match &c.value {
-                CyclesText::Count(n) if (1..=100_000).contains(n) => Some(Cycles::Count(*n as u32)),
+                CyclesText::Count(n) if (1..=u64::from(bounds::MAX_CYCLES)).contains(n) => {
+                    Some(Cycles::Count(*n as u32))
+                }
                 CyclesText::Count(_) => {
-                    self.at(&c.referenced, "duty.cycles", "must be 1 to 100000");
+                    self.at(
+                        &c.referenced,
+                        "duty.cycles",
+                        format!("must be 1 to {} dispatches", bounds::MAX_CYCLES),
+                    );
                     None
                 }
                 CyclesText::Text(t) if t == "until_steady" => Some(Cycles::UntilSteady {
@@ -47,6 +58,18 @@ impl Validator {
                 }
             },
         };
+        if let (Some(Cycles::UntilSteady { .. }), Some(h)) = (&cycles, film) {
+            if h == 0.0 {
+                self.at(
+                    &d.film_coefficient.referenced,
+                    "duty.film_coefficient",
+                    "is 0 with `cycles: until_steady`: without cooling the fins heat up at every \
+                     dispatch and never reach a steady state; give a film coefficient or a number \
+                     of cycles",
+                );
+                return None;
+            }
+        }
         Some(Duty {
             interval_s: interval?,
             cycles: cycles?,

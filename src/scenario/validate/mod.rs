@@ -77,10 +77,47 @@ impl fmt::Display for Issue {
     }
 }
 
+/// Largest scenario or limit-set file read, bytes (project bound: a scenario is a few kB; a file
+/// of 10 MB is not one, and reading it must not take the machine's memory).
+pub const MAX_INPUT_BYTES: u64 = 10 * 1024 * 1024;
+
+/// Reads an input text file: a regular file (not a device, FIFO or folder, which could block or
+/// never end) of at most [`MAX_INPUT_BYTES`], as UTF-8.
+pub fn read_input(path: &Path) -> Result<String, std::io::Error> {
+    use std::io::{Error, ErrorKind, Read};
+    let meta = std::fs::metadata(path)?;
+    if !meta.is_file() {
+        return Err(Error::new(
+            ErrorKind::InvalidInput,
+            "not a regular file (a scenario is read from an ordinary file)",
+        ));
+    }
+    if meta.len() > MAX_INPUT_BYTES {
+        return Err(Error::new(
+            ErrorKind::InvalidInput,
+            format!(
+                "{} bytes: larger than the {MAX_INPUT_BYTES}-byte limit for a scenario file",
+                meta.len()
+            ),
+        ));
+    }
+    let mut text = String::new();
+    std::fs::File::open(path)?
+        .take(MAX_INPUT_BYTES + 1)
+        .read_to_string(&mut text)?;
+    if text.len() as u64 > MAX_INPUT_BYTES {
+        return Err(Error::new(
+            ErrorKind::InvalidInput,
+            format!("larger than the {MAX_INPUT_BYTES}-byte limit for a scenario file"),
+        ));
+    }
+    Ok(text)
+}
+
 /// Reads and validates a scenario file. A `limits_file` is read relative to it.
 pub fn load(path: &Path) -> Result<Scenario, ScenarioError> {
     let file = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|source| ScenarioError::Io {
+    let text = read_input(path).map_err(|source| ScenarioError::Io {
         file: file.clone(),
         source,
     })?;
@@ -134,7 +171,7 @@ pub fn parse_str(text: &str, file: &str, base: Option<&Path>) -> Result<Scenario
     let file_limits = match &raw.limits_file {
         Some(lf) => {
             let p = base.unwrap_or(Path::new(".")).join(&lf.value);
-            match std::fs::read_to_string(&p) {
+            match read_input(&p) {
                 Ok(t) => {
                     let lf_name = p.display().to_string();
                     let raw_limits: RawLimitsFile = parse_yaml(&t, &lf_name)?;
@@ -221,7 +258,25 @@ impl Validator {
             QuantityText::Text(t) => units::from_text(kind, t),
         };
         match r {
-            Ok(x) => Some(x),
+            Ok(x) => match super::bounds::magnitude_bound(kind) {
+                Some((lo, hi, why)) if !(lo..=hi).contains(&x) => {
+                    self.at(
+                        &q.referenced,
+                        path,
+                        format!(
+                            "{} {} is not plausible: {why}",
+                            show(x),
+                            if kind == Kind::Temperature {
+                                "°C"
+                            } else {
+                                kind.si_unit()
+                            }
+                        ),
+                    );
+                    None
+                }
+                _ => Some(x),
+            },
             Err(e) => {
                 self.at(&q.referenced, path, e.to_string());
                 None
@@ -245,10 +300,21 @@ impl Validator {
             self.at(
                 &q.referenced,
                 path,
-                format!("{what} (got {x} {})", kind.si_unit()),
+                format!("{what} (got {} {})", show(x), kind.si_unit()),
             );
             None
         }
+    }
+
+    /// The length of a fin or a magnet section: at least [`bounds::MIN_ELEMENT_LENGTH_M`].
+    fn element_length(&mut self, q: &Q, path: &str) -> Option<f64> {
+        self.q_where(
+            q,
+            Kind::Length,
+            path,
+            |l| l >= super::bounds::MIN_ELEMENT_LENGTH_M,
+            "must be at least 1 mm (each end of a fin or section is an event of the run)",
+        )
     }
 
     fn positive(&mut self, q: &Q, kind: Kind, path: &str) -> Option<f64> {
@@ -488,12 +554,17 @@ impl Validator {
             "stall_speed",
             defaults::STALL_SPEED_M_S,
         );
-        let time_limit_s = self.opt_positive(
-            &raw.time_limit,
-            Kind::Time,
-            "time_limit",
-            defaults::TIME_LIMIT_S,
-        );
+        let time_limit_s = match &raw.time_limit {
+            Some(q) => self.q_where(
+                q,
+                Kind::Time,
+                "time_limit",
+                |t| t > 0.0 && t <= super::bounds::MAX_TIME_LIMIT_S,
+                "must lie in (0, 3600] s (an hour in the zone: any brake has stopped or released \
+                 the vehicle by then)",
+            ),
+            None => Some(defaults::TIME_LIMIT_S),
+        };
         let solver = self.solver(raw.solver.as_ref());
         let rider = self.rider(raw.rider.as_ref(), &track);
 
@@ -555,6 +626,7 @@ impl Validator {
                 self.generate(g, &cases, &nominal, &sections, zone_end_m, vehicle.length_m);
             cases.extend(generated);
         }
+        self.work_budget(raw, &cases, &fins, &sections, duty.as_ref());
         Some(Scenario {
             name: raw.name.clone(),
             description: raw.description.clone(),
@@ -576,6 +648,114 @@ impl Validator {
             duty,
             plan,
         })
+    }
+}
+
+impl Validator {
+    /// Refuses, before any work starts, a scenario that asks for more than the stated budgets of
+    /// [`super::bounds`], naming the field that drives the work and the numbers.
+    fn work_budget(
+        &mut self,
+        raw: &RawScenario,
+        cases: &[Case],
+        fins: &[Fin],
+        sections: &[Section],
+        duty: Option<&Duty>,
+    ) {
+        use super::bounds::{MAX_CASES, MAX_CASE_PAIRS, MAX_HEAT_CELLS, MAX_PASSES};
+        let cases_near = raw
+            .cases
+            .as_ref()
+            .and_then(|c| c.first())
+            .and_then(|c| loc(&c.name.referenced));
+        if cases.len() > MAX_CASES {
+            self.push(
+                cases_near,
+                "generate",
+                format!(
+                    "{} cases (listed and generated): above the {MAX_CASES}-case budget; generate \
+                     fewer (e.g. N−1 of fewer cases, fewer corner factors)",
+                    cases.len()
+                ),
+            );
+            return;
+        }
+        let pairs = |c: &Case| {
+            fins.iter()
+                .map(|f| {
+                    sections
+                        .iter()
+                        .enumerate()
+                        .filter(|(k, s)| s.lane == f.lane && !c.disabled.contains(k))
+                        .count()
+                })
+                .sum::<usize>()
+        };
+        let case_pairs: usize = cases.iter().map(pairs).sum();
+        if case_pairs > MAX_CASE_PAIRS {
+            self.push(
+                cases_near,
+                "sections",
+                format!(
+                    "{} fins × {} sections over {} cases is {case_pairs} fin–magnet pairs to \
+                     integrate: above the {MAX_CASE_PAIRS}-pair budget; use fewer copies or cases",
+                    fins.len(),
+                    sections.len(),
+                    cases.len()
+                ),
+            );
+        }
+        let cells: f64 = fins
+            .iter()
+            .filter(|f| matches!(f.mount, Mount::Track { .. }))
+            .map(|f| (f.length_m / defaults::HEAT_CELL_M).ceil())
+            .sum();
+        if cells > MAX_HEAT_CELLS as f64 {
+            self.push(
+                None,
+                "track.fins",
+                format!(
+                    "{cells} heat cells of {} cm along the track fins: above the \
+                     {MAX_HEAT_CELLS}-cell budget; shorten the fins",
+                    defaults::HEAT_CELL_M * 100.0
+                ),
+            );
+        }
+        if let Some(d) = duty {
+            let per_case = match d.cycles {
+                Cycles::Count(n) => n,
+                Cycles::UntilSteady { max_cycles } => max_cycles,
+            } as usize;
+            let passes = per_case.saturating_mul(cases.len());
+            if passes > MAX_PASSES {
+                let near = raw.duty.as_ref().and_then(|d| {
+                    d.cycles
+                        .as_ref()
+                        .map(|c| &c.referenced)
+                        .or(d.max_cycles.as_ref().map(|m| &m.referenced))
+                        .and_then(loc)
+                });
+                self.push(
+                    near,
+                    "duty.cycles",
+                    format!(
+                        "up to {per_case} dispatches × {} cases is {passes} passes: above the \
+                         {MAX_PASSES}-pass budget; lower the cycles (or max_cycles)",
+                        cases.len()
+                    ),
+                );
+            }
+        }
+    }
+}
+
+/// A number for a message: plain when it reads well, in exponent form when it is very large or
+/// very small (`1e18`, not eighteen zeros).
+fn show(x: f64) -> String {
+    if x != 0.0 && !(1e-3..1e6).contains(&x.abs()) {
+        format!("{x:e}")
+    } else {
+        format!("{x}")
     }
 }
 

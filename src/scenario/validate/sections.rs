@@ -2,6 +2,7 @@
 //! measured force curve, remanence coefficient, grade, copies, and overlaps along the track.
 
 use super::{lane_of, loc, shifted, track_span, Coord, PointList, Validator};
+use crate::scenario::bounds;
 use crate::scenario::raw::{RawForceCurve, RawSection};
 use crate::scenario::{defaults, ForceSource, MagnetDesign, MagnetGrade, MeasuredForce, Section};
 use crate::units::Kind;
@@ -15,7 +16,15 @@ impl Validator {
     ) -> Option<MagnetDesign> {
         let pole_pitch = self
             .required(&s.pole_pitch, &format!("{p}.pole_pitch"), near)
-            .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_pitch")));
+            .and_then(|q| {
+                self.q_where(
+                    q,
+                    Kind::Length,
+                    &format!("{p}.pole_pitch"),
+                    |t| t >= bounds::MIN_POLE_PITCH_M,
+                    "must be at least 1 mm (a finer row's field would not reach the fin)",
+                )
+            });
         let magnet_thickness = self
             .required(&s.magnet_thickness, &format!("{p}.magnet_thickness"), near)
             .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.magnet_thickness")));
@@ -154,7 +163,7 @@ impl Validator {
             let near = loc(&s.name.referenced);
             self.check_name(&s.name, &format!("{p}.name"));
             let mount = self.mount(&s.offset, &s.start, on_vehicle, &p, near);
-            let length_m = self.positive(&s.length, Kind::Length, &format!("{p}.length"));
+            let length_m = self.element_length(&s.length, &format!("{p}.length"));
             let body = self.section_body(s, &p, near);
             let copies = self.repeats(&s.repeat, length_m, &p);
             if let (Some(mount), Some(length_m), Some((force, beta, grade))) =

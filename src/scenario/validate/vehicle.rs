@@ -3,6 +3,7 @@
 
 use super::{lane_of, loc, shifted, Validator};
 use crate::materials::{self, Material};
+use crate::scenario::bounds;
 use crate::scenario::raw::{RawFin, RawMaterial, RawRepeat, RawScenario, Q};
 use crate::scenario::{defaults, Arrangement, Fin, Mount, Section};
 use crate::units::Kind;
@@ -34,6 +35,14 @@ impl Validator {
                 Kind::SpecificHeat,
                 &format!("{p}.specific_heat"),
             );
+            let softening = m
+                .softening
+                .as_ref()
+                .map(|q| self.temperature(&Some(q.clone()), &format!("{p}.softening"), 0.0));
+            let solidus = m
+                .solidus
+                .as_ref()
+                .map(|q| self.temperature(&Some(q.clone()), &format!("{p}.solidus"), 0.0));
             if out.iter().any(|b| &b.name == name) {
                 self.at(
                     &m.conductivity.referenced,
@@ -55,6 +64,8 @@ impl Validator {
                         .source
                         .clone()
                         .unwrap_or_else(|| defaults::MATERIAL_SOURCE.into()),
+                    softening_c: softening.flatten(),
+                    solidus_c: solidus.flatten(),
                 });
             }
         }
@@ -106,11 +117,15 @@ impl Validator {
             return vec![(String::new(), 0.0)];
         };
         let count = r.count.value;
-        if count == 0 || count > 10_000 {
+        if count == 0 || count > bounds::MAX_REPEAT {
             self.at(
                 &r.count.referenced,
                 &format!("{path}.repeat.count"),
-                "must be between 1 and 10000",
+                format!(
+                    "must be between 1 and {} (every copy is a fin or section of its own; a \
+                     longer run of copies is not a braking zone)",
+                    bounds::MAX_REPEAT
+                ),
             );
             return vec![];
         }
@@ -127,6 +142,17 @@ impl Validator {
                 );
                 return vec![];
             }
+        }
+        if f64::from(count - 1) * pitch > bounds::MAX_LENGTH_M {
+            self.at(
+                &r.pitch.referenced,
+                &format!("{path}.repeat.pitch"),
+                format!(
+                    "{count} copies at {pitch} m span more than {} km: longer than any track",
+                    bounds::MAX_LENGTH_M / 1e3
+                ),
+            );
+            return vec![];
         }
         if count == 1 {
             return vec![(String::new(), 0.0)];
@@ -149,7 +175,7 @@ impl Validator {
             let p = format!("{path}[{i}]");
             let near = loc(&f.name.referenced);
             let mount = self.mount(&f.offset, &f.start, on_vehicle, &p, near);
-            let length_m = self.positive(&f.length, Kind::Length, &format!("{p}.length"));
+            let length_m = self.element_length(&f.length, &format!("{p}.length"));
             let height_m = self.positive(&f.height, Kind::Length, &format!("{p}.height"));
             let thickness_m = self.positive(&f.thickness, Kind::Length, &format!("{p}.thickness"));
             let material = mats.iter().find(|m| m.name == f.material.value).cloned();
