@@ -327,6 +327,18 @@ fn split_value(text: &str) -> Option<(f64, String)> {
     Some((number, normalise_unit(&t[end..])))
 }
 
+/// The unit of a `"value unit"` text (normalised: `µ` as `u`, `²` as `^2`), or `None` for a
+/// bare number or text that is not a number.
+pub fn unit_of(text: &str) -> Option<String> {
+    split_value(text).map(|(_, u)| u).filter(|u| !u.is_empty())
+}
+
+/// `si` (SI; °C for temperatures) in `unit`, one of `kind`'s spellings: the inverse of the
+/// scaling [`from_text`] applies; `None` when `unit` is not a unit of `kind`.
+pub fn in_unit(kind: Kind, si: f64, unit: &str) -> Option<f64> {
+    find_unit(kind, unit).map(|(scale, offset)| (si - offset) / scale)
+}
+
 /// Reads a plain SI number of the given kind.
 pub fn from_number(kind: Kind, value: f64) -> Result<f64, UnitError> {
     if kind == Kind::Temperature {

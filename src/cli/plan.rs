@@ -8,7 +8,8 @@ use clap::Args;
 use eddyzone::plan::{plan, PlanOptions};
 use eddyzone::report::json_out::{pretty, PlanJson};
 use eddyzone::report::{terminal::plan_text, write_file, OutputError};
-use eddyzone::scenario::write::to_yaml;
+use eddyzone::scenario::as_written::planned_yaml;
+use eddyzone::scenario::validate::read_input;
 use eddyzone::study::{Progress, Silent};
 use std::path::PathBuf;
 
@@ -40,7 +41,8 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     bar.finish();
     let r = r?;
     if let (Some(path), true) = (&a.write, r.feasible) {
-        let yaml = to_yaml(&r.scenario).map_err(OutputError::from)?;
+        let units = read_input(&a.scenario).ok();
+        let yaml = planned_yaml(&r.scenario, units.as_deref()).map_err(OutputError::from)?;
         write_file(path, yaml.as_bytes())?;
     }
     if a.json {

@@ -178,9 +178,11 @@ pub struct RawMaterial {
     pub source: Option<String>,
     /// Softening point (a warning above it).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub softening: Option<Q>,
     /// Solidus (a warning at or above it).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub solidus: Option<Q>,
 }
 
@@ -456,6 +458,10 @@ pub struct RawRider {
     /// The rider axis the track direction is: `x` or `z`.
     #[schemars(with = "String", extend("enum" = ["x", "z"]))]
     pub track_axis: Spanned<String>,
+    /// Whether the device carries people (default true with a `rider:` block; a scenario
+    /// without one is unmanned).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub passengers: Option<bool>,
     /// Low-pass filter for limit evaluation.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub filter: Option<RawFilter>,

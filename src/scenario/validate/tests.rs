@@ -125,7 +125,8 @@ fn profile_rules() {
     let i = issues(&t);
     assert_eq!(i[0].path, "track.profile");
     assert_eq!(i[0].message, "at least two points are needed");
-    assert_eq!(i[0].location, None);
+    // Found across the list: located where the list is written.
+    assert_eq!(i[0].location, Some(line_col(&t, "[[0 m, 0 m]]")));
 
     let t = format!("{base}track: {{ profile: [[0 m, 0 m], [5 m]] }}\n");
     let i = issues(&t);
@@ -162,7 +163,7 @@ fn envelope_rules() {
     let i = issues(&t);
     assert_eq!(i[0].path, "limits.envelope.x.negative");
     assert_eq!(i[0].message, "at least one point is needed");
-    assert_eq!(i[0].location, None);
+    assert_eq!(i[0].location, Some(line_col(&t, "[] }")));
 
     // Equal durations make a step and are accepted; levels are kept in g.
     let t = format!("{base}limits: {{ envelope: {{ x: {{ negative: [[0 s, 2 g], [1 s, 2 g], [1 s, 1 g]] }} }} }}\n");
