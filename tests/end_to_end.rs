@@ -132,6 +132,7 @@ fn run_table_and_json() {
                 "stall_position_m",
                 "peak_decel_m_s2",
                 "peak_decel_g",
+                "peak_felt_decel_g",
                 "peak_decel_time_s",
                 "peak_decel_position_m",
                 "peak_onset_g_s",

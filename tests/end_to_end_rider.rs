@@ -141,3 +141,73 @@ fn combined_axis_limit_is_the_quarter_ellipse() {
     assert_eq!(o.status.code(), Some(2));
     assert!(String::from_utf8_lossy(&o.stderr).contains("limits.combined[0]"));
 }
+
+/// Over a crest the seat-normal felt acceleration is cos θ − v²/(g·R) (textbook circular motion,
+/// a = v²/R): the coaster's brake run on a crest of radius 200 m given as points every 0.5 m.
+/// The lowest raw value lies between the bounds the entry and exit speeds give.
+#[test]
+fn a_crest_lightens_the_rider_by_v_squared_over_r() {
+    let tmp = tempfile::tempdir().unwrap();
+    let r = 200.0_f64;
+    let points: String = (-40..=200)
+        .map(|k| {
+            let s = k as f64 * 0.5;
+            let z = r * ((s - 30.0) / r).cos() - r;
+            format!("    - [{s} m, {z:.9} m]\n")
+        })
+        .collect();
+    let text = level_coaster(
+        "  peak:\n    z: { min: 0.2 g, max: 2 g }\n",
+        "rider:\n  track_axis: x\n",
+    )
+    .replace(
+        "track: { grade: 0 % }\n",
+        &format!("track:\n  profile:\n{points}"),
+    );
+    let p = tmp.path().join("crest.yaml");
+    std::fs::write(&p, text).unwrap();
+    let p = p.to_str().unwrap();
+    let o = run(&["check", p, "--json", "--case", "full"], tmp.path());
+    let v = json(&o);
+    let z = row(&rows(&v, "full"), "peak_min", Some("z"));
+    let raw = z["raw_value"].as_f64().unwrap();
+    let runs = json(&run(&["run", p, "--json", "--case", "full"], tmp.path()));
+    let entry = runs["cases"][0]["entry_speed_m_s"].as_f64().unwrap();
+    let exit = runs["cases"][0]["exit_speed_m_s"].as_f64().unwrap();
+    let g = 9.80665;
+    // The steepest part under the train: the zone spans about 15–42 m, the train 11 m.
+    let cos_min = (30.0_f64 / r).cos();
+    let hi = 1.0 - exit * exit / (g * r);
+    let lo = cos_min - entry * entry / (g * r);
+    assert!(raw <= hi + 1e-3 && raw >= lo - 1e-3, "{lo} ≤ {raw} ≤ {hi}");
+    assert!(
+        hi < 0.95,
+        "the test needs a noticeable centripetal term: {hi}"
+    );
+}
+
+/// On the vertical tower the felt deceleration is the net one plus 1 g (gravity pulls the
+/// gondola down while the brake holds it: Newton's second law with the weight on the other
+/// side), and `run` shows both.
+#[test]
+fn run_shows_net_and_felt_deceleration_one_g_apart_on_the_tower() {
+    let tmp = tempfile::tempdir().unwrap();
+    let demo = root().join("scenarios/tower-catch-brake.yaml");
+    let o = run(&["run", demo.to_str().unwrap(), "--json"], tmp.path());
+    let r = json(&o);
+    for case in r["cases"].as_array().unwrap() {
+        let net = case["peak_decel_g"].as_f64().unwrap();
+        let felt = case["peak_felt_decel_g"].as_f64().unwrap();
+        assert!(
+            (felt - net - 1.0).abs() < 1e-3,
+            "{}: {felt} vs {net}",
+            case["case"]
+        );
+    }
+    let text = run(&["run", demo.to_str().unwrap()], tmp.path());
+    let head = String::from_utf8_lossy(&text.stdout);
+    assert!(
+        head.contains("net_decel_g") && head.contains("felt_decel_g"),
+        "{head}"
+    );
+}

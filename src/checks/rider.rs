@@ -178,7 +178,14 @@ pub enum RiderSignalError {
 /// Felt specific force along the track's +s direction (the vehicle's x), in g: negative while
 /// braking a vehicle moving forward, positive while braking one rolling back.
 pub fn felt_along_track_g(s: &crate::dynamics::Sample, mass_kg: f64) -> f64 {
-    (s.brake_force_n + s.resistance_force_n) / (mass_kg * G)
+    s.felt_along_track_g(mass_kg)
+}
+
+/// Felt specific force normal to the track (seat-normal, towards the track), in g: the normal
+/// component of gravity, cos θ, plus the centripetal term v²·κ/g of the track's curvature under
+/// the vehicle (lighter over a crest, heavier in a dip; textbook circular motion a = v²/R).
+pub fn felt_normal_g(s: &crate::dynamics::Sample) -> f64 {
+    s.cos_theta + s.v_m_s * s.v_m_s * s.curvature_1_m / G
 }
 
 /// Felt acceleration along the track and normal to it from a run's samples (inside the zone),
@@ -194,7 +201,7 @@ pub fn rider_signals(run: &RunResult, rider: &Rider) -> Result<RiderSignals, Rid
         }
         t.push(s.t_s);
         along.push(felt_along_track_g(s, run.mass_kg));
-        normal.push(s.cos_theta);
+        normal.push(felt_normal_g(s));
         dir.push(if s.v_m_s < 0.0 { -1.0 } else { 1.0 });
     }
     if t.len() < 2 || t[t.len() - 1] <= t[0] {
@@ -294,6 +301,7 @@ mod tests {
             gravity_force_n: 0.0,
             resistance_force_n: 0.0,
             cos_theta: cos,
+            curvature_1_m: 0.0,
             overlap_m: 0.0,
             event: false,
         }
@@ -420,6 +428,32 @@ mod tests {
         assert_eq!(
             rider_signals(&r, &seated).err(),
             Some(RiderSignalError::TooFewSamples)
+        );
+    }
+
+    #[test]
+    fn over_a_crest_the_rider_is_lighter_by_v_squared_over_r() {
+        // Level crest of radius 50 m at 20 m/s: felt normal 1 − v²/(g·R) = 1 − 400/490.3325 g
+        // (textbook uniform circular motion, a = v²/R).
+        let samples: Vec<Sample> = (0..1000)
+            .map(|i| Sample {
+                v_m_s: 20.0,
+                curvature_1_m: -1.0 / 50.0,
+                ..sample(i as f64 * 1e-3, 0.0, 1.0)
+            })
+            .collect();
+        let r = run_with(samples);
+        let rider = Rider {
+            track_axis: Axis::X,
+            filter: None,
+            rates: Default::default(),
+        };
+        let s = rider_signals(&r, &rider).unwrap();
+        let expected = 1.0 - 400.0 / (9.80665 * 50.0);
+        assert!(
+            (s.peaks()[2].raw_max_g - expected).abs() < 1e-12,
+            "{:?}",
+            s.peaks()[2]
         );
     }
 }

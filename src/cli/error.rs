@@ -52,7 +52,10 @@ impl From<csv::Error> for Error {
 /// The process exit code of an error.
 pub fn exit_code(e: &Error) -> i32 {
     match e {
-        Error::Scenario(_) | Error::Usage(_) | Error::Plan(PlanError::NoPlan) => EXIT_BAD_INPUT,
+        Error::Scenario(_)
+        | Error::Usage(_)
+        | Error::Plan(PlanError::NoPlan)
+        | Error::Study(StudyError::SampleBudget { .. }) => EXIT_BAD_INPUT,
         Error::Study(_) | Error::Plan(PlanError::Study(_)) => EXIT_COMPUTATION,
         Error::Output(_) => EXIT_OUTPUT,
     }

@@ -189,6 +189,8 @@ pub struct Sample {
     pub resistance_force_n: f64,
     /// cos θ of the mean inclination under the vehicle.
     pub cos_theta: f64,
+    /// Mean curvature dθ/ds of the track under the vehicle, 1/m (negative over a crest).
+    pub curvature_1_m: f64,
     /// Total fin–magnet overlap of active pairs, m.
     pub overlap_m: f64,
     /// Whether the sample is at an event.
@@ -321,5 +323,31 @@ impl RunResult {
     pub fn peak_decel_g(&self) -> Option<f64> {
         self.peak_decel_m_s2
             .map(|a| a / crate::constants::STANDARD_GRAVITY_M_S2)
+    }
+
+    /// Peak felt deceleration along the direction of travel inside the zone, g, from the kept
+    /// samples (events included): what a rider feels, brake and resistance without gravity.
+    /// It differs from [`RunResult::peak_decel_g`] (the vehicle's net deceleration) by the
+    /// along-track gravity: 1 g on a vertical tower. None without samples in the zone.
+    pub fn peak_felt_decel_g(&self) -> Option<f64> {
+        let t0 = self.entry_time_s?;
+        let t1 = t0 + self.time_in_zone_s.unwrap_or(f64::INFINITY);
+        self.samples
+            .iter()
+            .filter(|s| s.t_s >= t0 && s.t_s <= t1)
+            .map(|s| {
+                let dir = if s.v_m_s < 0.0 { -1.0 } else { 1.0 };
+                -s.felt_along_track_g(self.mass_kg) * dir
+            })
+            .reduce(f64::max)
+    }
+}
+
+impl Sample {
+    /// Felt specific force along the track's +s direction, g: brake and resistance over the
+    /// weight (gravity acts on rider and seat alike and is not felt).
+    pub fn felt_along_track_g(&self, mass_kg: f64) -> f64 {
+        (self.brake_force_n + self.resistance_force_n)
+            / (mass_kg * crate::constants::STANDARD_GRAVITY_M_S2)
     }
 }

@@ -147,6 +147,16 @@ impl FrozenGravity {
         let s = self.mean_slope(front_m);
         (1.0 - s * s).max(0.0).sqrt()
     }
+
+    /// Mean curvature dθ/ds of the track under the vehicle, 1/m: the change of the inclination
+    /// angle from the rear to the front over the vehicle length (negative over a crest, positive
+    /// in a dip). A piecewise-linear profile bends only at its points; averaged over the vehicle,
+    /// as the gravity force is, the bend is a finite curvature that is constant while neither end
+    /// crosses a point (and tends to 1/R for points on an arc of radius R).
+    pub fn mean_curvature_1_m(&self) -> f64 {
+        let angle = |p: &Piece| p.slope.clamp(-1.0, 1.0).asin();
+        (angle(&self.front) - angle(&self.rear)) / self.length_m
+    }
 }
 
 /// Resistance force magnitude (always against the motion), N: rolling μ·m·g·cos θ, a constant
@@ -209,5 +219,35 @@ mod tests {
         let (x, h) = (21.0, 1e-5);
         let de = m * 9.80665 * (t.mean_elevation_m(x + h) - t.mean_elevation_m(x - h)) / (2.0 * h);
         assert_relative_eq!(t.frozen(x, 1.0).force_n(m, x), -de, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn mean_curvature_on_an_arc_is_one_over_the_radius() {
+        // Points every 0.5 m of arc on a crest of radius R = 50 m (z = R cos(s/R) − R), a 4 m
+        // vehicle: the mean curvature under it is −1/R (textbook geometry of the circle) to
+        // within the chord error (~(0.5/R)²).
+        let r = 50.0;
+        let points: Vec<(f64, f64)> = (-80..=80)
+            .map(|k| {
+                let s = k as f64 * 0.5;
+                (s, r * (s / r).cos() - r)
+            })
+            .collect();
+        let t = TrackModel::new(&Gravity::Profile { points }, 1.2, 4.0);
+        for front in [0.25, 2.0, 7.3, 15.0] {
+            let k = t.frozen(front, 1.0).mean_curvature_1_m();
+            assert_relative_eq!(k, -1.0 / r, max_relative = 1e-3);
+        }
+        // A dip bends the other way; a straight grade not at all.
+        let dip = TrackModel::new(
+            &Gravity::Profile {
+                points: vec![(0.0, 1.0), (10.0, 0.0), (20.0, 1.0)],
+            },
+            1.2,
+            4.0,
+        );
+        assert!(dip.frozen(12.0, 1.0).mean_curvature_1_m() > 0.0);
+        let grade = TrackModel::new(&Gravity::Grade { slope: -1.0 }, 1.2, 4.0);
+        assert_eq!(grade.frozen(5.0, 1.0).mean_curvature_1_m(), 0.0);
     }
 }

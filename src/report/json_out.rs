@@ -13,7 +13,18 @@ pub struct RunJson<'a> {
     /// Tool version.
     pub version: &'static str,
     /// One entry per case.
-    pub cases: &'a [RunResult],
+    pub cases: Vec<RunCaseJson<'a>>,
+}
+
+/// One case of `run --json`: the run as it serializes itself, and the peak felt deceleration
+/// beside the net one (`peak_decel_g`).
+#[derive(Debug, Clone, Serialize)]
+pub struct RunCaseJson<'a> {
+    /// The run.
+    #[serde(flatten)]
+    pub run: &'a RunResult,
+    /// [`RunResult::peak_felt_decel_g`].
+    pub peak_felt_decel_g: Option<f64>,
 }
 
 impl<'a> RunJson<'a> {
@@ -22,7 +33,13 @@ impl<'a> RunJson<'a> {
         Self {
             scenario,
             version: VERSION,
-            cases: results,
+            cases: results
+                .iter()
+                .map(|run| RunCaseJson {
+                    run,
+                    peak_felt_decel_g: run.peak_felt_decel_g(),
+                })
+                .collect(),
         }
     }
 }

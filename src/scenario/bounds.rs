@@ -43,6 +43,9 @@ pub fn magnitude_bound(kind: Kind) -> Option<(f64, f64, &'static str)> {
 
 /// Largest length or position, m.
 pub const MAX_LENGTH_M: f64 = 1e5;
+/// Longest vehicle, m (a long train of coaster cars is under 50 m, a sled under 20 m; common
+/// practice, generous).
+pub const MAX_VEHICLE_LENGTH_M: f64 = 1000.0;
 /// Largest speed, m/s.
 pub const MAX_SPEED_M_S: f64 = 1e3;
 /// Smallest pole pitch, m (finer than any magnet row; the field would not reach the fin).

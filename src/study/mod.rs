@@ -17,7 +17,7 @@ pub use progress::{Progress, Silent};
 use crate::checks::limits::{check_case, combine_states, verdict_of, JudgedState};
 use crate::checks::{verdict, CaseTemperatures, Verdict};
 use crate::curve::{curves, CurveOptions, PairCurve};
-use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult};
+use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult, Sampling};
 use crate::scenario::Scenario;
 use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
 use rayon::prelude::*;
@@ -31,6 +31,28 @@ pub enum StudyError {
     /// A heat calculation failed.
     #[error(transparent)]
     Thermal(#[from] ThermalError),
+    /// The samples a run would keep exceed [`MAX_SAMPLES`]: refused before the runs start.
+    #[error(
+        "a sample interval (`--dt`) of {dt_s} s over {span_s:.3} s (case '{case}', the longest) \
+         is {per_case} samples per case, {total} over {cases} cases: above the \
+         {MAX_SAMPLES}-sample budget; use a sample interval of at least {suggest_s:.1e} s"
+    )]
+    SampleBudget {
+        /// The sample interval asked for, s.
+        dt_s: f64,
+        /// The longest sampled span of a case, s.
+        span_s: f64,
+        /// Its case.
+        case: String,
+        /// Samples of that case.
+        per_case: u64,
+        /// Samples of all cases.
+        total: u64,
+        /// Number of cases.
+        cases: usize,
+        /// The smallest interval within the budget, s.
+        suggest_s: f64,
+    },
     /// A result came out as NaN or infinite: never printed as a number.
     #[error("case '{case}': {quantity} is not a finite number; the computation cannot be trusted")]
     NotFinite {
@@ -40,6 +62,10 @@ pub enum StudyError {
         quantity: String,
     },
 }
+
+/// The most samples the runs of one study may keep in memory together (about 112 bytes each, so
+/// about 450 MB; common practice for a workstation tool: refuse rather than exhaust memory).
+pub const MAX_SAMPLES: u64 = 4_000_000;
 
 /// The first quantity of a run that is not finite, if any.
 fn non_finite_run(r: &RunResult) -> Option<String> {
@@ -193,7 +219,12 @@ impl Study {
 
     /// Runs every case (in parallel), results in case order. A vehicle fin heated past its
     /// material's softening point or solidus adds a warning to its run.
+    ///
+    /// A sample interval whose samples could exceed [`MAX_SAMPLES`] is first tried on runs that
+    /// keep no fine samples, and refused with [`StudyError::SampleBudget`] when the real spans
+    /// need more.
     pub fn run(&self, options: &RunOptions) -> Result<Vec<RunResult>, StudyError> {
+        self.sample_budget(options)?;
         let s = &self.scenario;
         let mut runs = all_finite_runs(
             s.cases
@@ -211,12 +242,66 @@ impl Study {
         Ok(runs)
     }
 
+    /// Refuses, before the real runs, a sample interval that would keep more than
+    /// [`MAX_SAMPLES`] samples over all cases. Cheap when the time limit already bounds them.
+    fn sample_budget(&self, options: &RunOptions) -> Result<(), StudyError> {
+        let s = &self.scenario;
+        let dt = options.sample_dt_s;
+        let cases = s.cases.len();
+        let bound = s.time_limit_s / dt * cases as f64;
+        if dt.is_nan() || dt <= 0.0 || bound <= MAX_SAMPLES as f64 {
+            return Ok(());
+        }
+        let coarse = RunOptions {
+            sample_dt_s: (s.time_limit_s / 1000.0).max(dt),
+            ..options.clone()
+        };
+        let spans = s
+            .cases
+            .par_iter()
+            .map(|c| {
+                simulate_case(s, &self.tables, c, &coarse).map(|r| {
+                    let span = match options.sampling {
+                        Sampling::Full => r.end_time_s,
+                        Sampling::ZoneOnly => r.time_in_zone_s.unwrap_or(0.0),
+                    };
+                    (r.case, span)
+                })
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        let per = |span: f64| (span / dt).ceil() as u64 + 1;
+        let total: u64 = spans.iter().map(|(_, t)| per(*t)).sum();
+        if total <= MAX_SAMPLES {
+            return Ok(());
+        }
+        let (case, span_s) = spans
+            .iter()
+            .max_by(|a, b| a.1.total_cmp(&b.1))
+            .cloned()
+            .unwrap_or_default();
+        let all_spans: f64 = spans.iter().map(|(_, t)| t).sum();
+        Err(StudyError::SampleBudget {
+            dt_s: dt,
+            span_s,
+            case,
+            per_case: per(span_s),
+            total,
+            cases,
+            suggest_s: all_spans / (MAX_SAMPLES - cases as u64) as f64,
+        })
+    }
+
     /// Fin heat of every case over one pass or the duty cycle (in parallel), in case order.
     pub fn heat(
         &self,
         options: &HeatOptions,
         progress: &dyn Progress,
     ) -> Result<Vec<CaseHeat>, StudyError> {
+        self.sample_budget(&RunOptions {
+            sample_dt_s: options.sample_dt_s,
+            sampling: Sampling::Full,
+            ..RunOptions::default()
+        })?;
         let s = &self.scenario;
         progress.stage("heating the fins", Some(s.cases.len() as u64));
         let out = s

@@ -97,7 +97,7 @@ pub(super) fn first_event<const N: usize>(
                 |tt| g_at(tt, e),
                 1e-9_f64.max(4.0 * f64::EPSILON * b.abs()),
             );
-            if best.is_none_or(|(tb, _)| te < tb) {
+            if best.is_none_or(|(tb, eb)| comes_first(te, e, tb, eb)) {
                 best = Some((te, e));
             }
         }
@@ -105,6 +105,26 @@ pub(super) fn first_event<const N: usize>(
     match best {
         Some((te, e)) => (te, Some(e)),
         None => (b, None),
+    }
+}
+
+/// Whether event `e` at `te` comes before event `eb` at `tb`: earlier, or at the same time
+/// (within a few location tolerances) and more decisive. A clearing, a stall or a reversal ends
+/// or turns the run; a piece end that coincides with one (a profile point exactly at the
+/// clearing position) must not hide it, since the next piece starts with its function already
+/// at or below zero and would never see it cross.
+fn comes_first(te: f64, e: Event, tb: f64, eb: Event) -> bool {
+    const TIE_S: f64 = 4e-9;
+    let rank = |e: Event| match e {
+        Event::ClearForward | Event::ClearBackward => 0,
+        Event::Stall => 1,
+        Event::Reversal => 2,
+        Event::PieceLow | Event::PieceHigh => 3,
+    };
+    if (te - tb).abs() <= TIE_S {
+        rank(e) < rank(eb)
+    } else {
+        te < tb
     }
 }
 

@@ -135,6 +135,7 @@ fn sample<const N: usize>(
         gravity_force_n: f.gravity_n,
         resistance_force_n: f.resistance_n,
         cos_theta: f.cos_theta,
+        curvature_1_m: fr.gravity.mean_curvature_1_m(),
         overlap_m: f.overlap_m,
         event,
     }

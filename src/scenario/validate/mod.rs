@@ -448,7 +448,25 @@ impl Validator {
         }
         let materials = self.materials(&raw.materials);
         let mass_kg = self.positive(&raw.vehicle.mass, Kind::Mass, "vehicle.mass");
-        let length_m = self.positive(&raw.vehicle.length, Kind::Length, "vehicle.length");
+        let length_m = self
+            .positive(&raw.vehicle.length, Kind::Length, "vehicle.length")
+            .and_then(|l| {
+                if l > super::bounds::MAX_VEHICLE_LENGTH_M {
+                    self.at(
+                        &raw.vehicle.length.referenced,
+                        "vehicle.length",
+                        format!(
+                            "{} m is not plausible: a vehicle braked by one zone is shorter than \
+                             {} m (the whole train counts; longer ones take minutes to clear)",
+                            show(l),
+                            super::bounds::MAX_VEHICLE_LENGTH_M
+                        ),
+                    );
+                    None
+                } else {
+                    Some(l)
+                }
+            });
         let vloc = loc(&raw.vehicle.mass.referenced);
 
         let track_fins = raw.track.as_ref().and_then(|t| t.fins.as_ref());
