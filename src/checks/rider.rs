@@ -132,7 +132,7 @@ pub fn profile_columns(run: &RunResult, rider: &Rider) -> Vec<(String, Vec<Optio
                 Some(if k == along_index {
                     along_sign * felt_along_track_g(s, run.mass_kg)
                 } else {
-                    s.cos_theta
+                    felt_normal_g(s)
                 })
             })
             .collect();
@@ -444,6 +444,7 @@ mod tests {
             .collect();
         let r = run_with(samples);
         let rider = Rider {
+            passengers: true,
             track_axis: Axis::X,
             filter: None,
             rates: Default::default(),
