@@ -290,3 +290,26 @@ fn a_default_backwards_entry_starts_just_past_the_zone_and_says_so() {
     );
     assert_eq!(r.start_position_m, 20.0);
 }
+
+#[test]
+fn grades_keep_their_written_name() {
+    use crate::scenario::{GradeClass, MagnetGrade};
+    // Sintered NdFeB grade names: N + energy product in MGOe + class letters (common practice).
+    for (text, name, class, limit_c) in [
+        ("N40H", "N40H", GradeClass::H, 120.0),
+        ("n42sh", "N42SH", GradeClass::SH, 150.0),
+        ("N35", "N35", GradeClass::N, 80.0),
+        ("SH", "SH", GradeClass::SH, 150.0),
+        ("N", "N", GradeClass::N, 80.0),
+        ("38UH", "N38UH", GradeClass::UH, 180.0),
+    ] {
+        let g = MagnetGrade::parse(text).unwrap_or_else(|| panic!("{text}"));
+        assert_eq!(g.class, class, "{text}");
+        assert_eq!(g.name(), name, "{text}");
+        assert_eq!(g.max_temperature_c(), limit_c, "{text}");
+        assert_eq!(MagnetGrade::parse(&g.name()), Some(g), "{text} reads back");
+    }
+    for bad in ["", "N40X", "H40", "N99999999H"] {
+        assert_eq!(MagnetGrade::parse(bad), None, "{bad}");
+    }
+}
