@@ -99,7 +99,8 @@ impl Kind {
         }
     }
 
-    const ALL: [Kind; 18] = [
+    /// Every kind.
+    pub const ALL: [Kind; 18] = [
         Kind::Length,
         Kind::Speed,
         Kind::Mass,
@@ -119,6 +120,17 @@ impl Kind {
         Kind::Jerk,
         Kind::HeatTransfer,
     ];
+
+    /// The unit spellings this kind accepts, SI first.
+    pub fn spellings(self) -> Vec<&'static str> {
+        self.units().iter().map(|u| u.0).collect()
+    }
+
+    /// Whether a bare number (read in [`Kind::si_unit`]) is accepted: not for temperatures
+    /// (°C or K?) nor accelerations and onsets (g or SI?).
+    pub fn takes_bare_number(self) -> bool {
+        !matches!(self, Kind::Temperature | Kind::Acceleration | Kind::Jerk)
+    }
 
     /// Units of this kind: (spelling, scale to SI, offset added after scaling).
     fn units(self) -> &'static [(&'static str, f64, f64)] {
@@ -222,6 +234,14 @@ pub enum UnitError {
         /// An example unit of the expected kind.
         example: &'static str,
     },
+    /// A decimal comma (`0,9 t`): only the decimal point is read.
+    #[error("'{text}' has a decimal comma, which is not accepted: write '{suggestion}'")]
+    DecimalComma {
+        /// The text as written.
+        text: String,
+        /// The same text with a decimal point.
+        suggestion: String,
+    },
     /// The number is NaN or infinite.
     #[error("'{text}' is not a finite number")]
     NotFinite {
@@ -307,6 +327,18 @@ fn split_value(text: &str) -> Option<(f64, String)> {
     Some((number, normalise_unit(&t[end..])))
 }
 
+/// The unit of a `"value unit"` text (normalised: `µ` as `u`, `²` as `^2`), or `None` for a
+/// bare number or text that is not a number.
+pub fn unit_of(text: &str) -> Option<String> {
+    split_value(text).map(|(_, u)| u).filter(|u| !u.is_empty())
+}
+
+/// `si` (SI; °C for temperatures) in `unit`, one of `kind`'s spellings: the inverse of the
+/// scaling [`from_text`] applies; `None` when `unit` is not a unit of `kind`.
+pub fn in_unit(kind: Kind, si: f64, unit: &str) -> Option<f64> {
+    find_unit(kind, unit).map(|(scale, offset)| (si - offset) / scale)
+}
+
 /// Reads a plain SI number of the given kind.
 pub fn from_number(kind: Kind, value: f64) -> Result<f64, UnitError> {
     if kind == Kind::Temperature {
@@ -330,9 +362,30 @@ pub fn from_number(kind: Kind, value: f64) -> Result<f64, UnitError> {
     Ok(value)
 }
 
+/// `text` with its decimal comma replaced by a point, when it starts with a number written with
+/// one (`0,9 t`, `-1,25 T`).
+fn decimal_comma(text: &str) -> Option<String> {
+    let t = text.trim_start();
+    let body = t.strip_prefix(['-', '+']).unwrap_or(t);
+    let digits = |s: &str| s.chars().take_while(char::is_ascii_digit).count();
+    let whole = digits(body);
+    let rest = body[whole..].strip_prefix(',')?;
+    if whole == 0 || digits(rest) == 0 {
+        return None;
+    }
+    let at = t.len() - rest.len() - 1;
+    Some(format!("{}.{}", &t[..at], &t[at + 1..]))
+}
+
 /// Reads "value unit" text of the given kind into SI (°C for temperatures).
 pub fn from_text(kind: Kind, text: &str) -> Result<f64, UnitError> {
     let example = kind.units()[0].0;
+    if let Some(suggestion) = decimal_comma(text) {
+        return Err(UnitError::DecimalComma {
+            text: text.to_string(),
+            suggestion,
+        });
+    }
     let (number, unit) = split_value(text).ok_or_else(|| UnitError::NotANumber {
         text: text.to_string(),
         example,
@@ -478,6 +531,34 @@ mod tests {
         ));
         assert!(from_text(Kind::Length, "").is_err());
         assert!(from_text(Kind::Length, "e5 m").is_err());
+    }
+
+    #[test]
+    fn decimal_commas_are_named() {
+        let e = from_text(Kind::Mass, "0,9 t").unwrap_err();
+        assert_eq!(
+            e,
+            UnitError::DecimalComma {
+                text: "0,9 t".into(),
+                suggestion: "0.9 t".into()
+            }
+        );
+        let msg = e.to_string();
+        assert!(
+            msg.contains("decimal comma") && msg.contains("'0.9 t'"),
+            "{msg}"
+        );
+        assert!(matches!(
+            from_text(Kind::FluxDensity, "-1,25 T"),
+            Err(UnitError::DecimalComma { suggestion, .. }) if suggestion == "-1.25 T"
+        ));
+        // The corrected text reads.
+        assert_relative_eq!(from_text(Kind::Mass, "0.9 t").unwrap(), 900.0);
+        // A comma that is not a decimal comma is left to the other messages.
+        assert!(matches!(
+            from_text(Kind::Mass, ",9 t"),
+            Err(UnitError::NotANumber { .. })
+        ));
     }
 
     #[test]

@@ -174,7 +174,8 @@ fn run_profiles_are_written() {
     let first = csv_text.lines().next().unwrap();
     assert_eq!(
         first,
-        "t_s,s_m,v_m_s,a_m_s2,decel_g,brake_force_n,gravity_force_n,resistance_force_n,overlap_m"
+        "t_s,s_m,v_m_s,a_m_s2,decel_g,brake_force_n,gravity_force_n,resistance_force_n,overlap_m,\
+         felt_x_raw_g,felt_x_filtered_g,felt_z_raw_g,felt_z_filtered_g"
     );
     assert!(csv_text.lines().count() > 100);
     // No temporary files are left behind.

@@ -342,6 +342,7 @@ fn report_writes_every_file_reproducibly() {
     );
 
     browser_check(&a.join("report.html"), &svgs);
+    print_check(&a.join("report.html"), &html);
 }
 
 /// The tower demo: fins along the track (magnets on the gondola) and a duty block, so both
@@ -420,5 +421,98 @@ fn browser_check(html: &Path, svgs: &[PathBuf]) {
         dom.matches("<svg").count(),
         svgs.len(),
         "every <svg> parsed"
+    );
+}
+
+/// Prints the report to PDF with headless chromium and reads the pages back with pdftotext
+/// (poppler), when both are installed: every section heading, every figure's caption and the
+/// last line of the input file as written are on the pages (nothing cut off by a scrolling
+/// box), and the figures start a page of their own.
+fn print_check(html_path: &Path, html: &str) {
+    let chromium = Path::new("/usr/bin/chromium");
+    let pdftotext = Path::new("/usr/bin/pdftotext");
+    if !chromium.exists() || !pdftotext.exists() {
+        eprintln!("note: chromium or pdftotext not found; print check skipped");
+        return;
+    }
+    let tmp = tempfile::tempdir().unwrap();
+    let pdf = tmp.path().join("report.pdf");
+    let o = Command::new(chromium)
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            "--no-first-run",
+            "--disable-background-networking",
+            "--disable-component-update",
+            "--disable-sync",
+            "--no-pdf-header-footer",
+        ])
+        .arg(format!(
+            "--user-data-dir={}",
+            tmp.path().join("profile").display()
+        ))
+        .arg(format!("--print-to-pdf={}", pdf.display()))
+        .arg(format!("file://{}", html_path.display()))
+        .output()
+        .expect("chromium runs");
+    assert!(
+        pdf.exists(),
+        "chromium printed: {}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let o = Command::new(pdftotext)
+        .arg("-layout")
+        .arg(&pdf)
+        .arg("-")
+        .output()
+        .expect("pdftotext runs");
+    let text = String::from_utf8_lossy(&o.stdout).into_owned();
+    let pages: Vec<&str> = text.split('\u{c}').collect();
+    assert!(pages.len() > 2, "several pages");
+    // Every <h2> of the report, as printed (markup-free headings).
+    let squeeze = |s: &str| s.split_whitespace().collect::<Vec<_>>().join(" ");
+    let printed = squeeze(&text);
+    let mut headings = 0;
+    for part in html.split("<h2 id=\"").skip(1) {
+        let title = &part[part.find('>').unwrap() + 1..part.find("</h2>").unwrap()];
+        let title = title.replace("&amp;", "&").replace("&#39;", "'");
+        assert!(
+            printed.contains(&squeeze(&title)),
+            "heading '{title}' printed"
+        );
+        headings += 1;
+    }
+    assert!(headings >= 6, "{headings} sections");
+    let figures = html.matches("<figure id=").count();
+    for i in 1..=figures {
+        assert!(
+            printed.contains(&format!("Figure {i}.")),
+            "Figure {i} printed"
+        );
+    }
+    // The input as written is printed whole: its last line is on the pages.
+    let start = html.find("id=\"input-text\">").unwrap();
+    let input = &html[start..];
+    let input = &input[input.find('>').unwrap() + 1..input.find("</pre>").unwrap()];
+    let last = input.lines().rev().find(|l| !l.trim().is_empty()).unwrap();
+    let last = last
+        .replace("&amp;", "&")
+        .replace("&#39;", "'")
+        .replace("&gt;", ">");
+    assert!(
+        printed.contains(&squeeze(&last)),
+        "last input line '{last}' printed"
+    );
+    // The figures begin on a new page.
+    let fig_page = pages.iter().position(|p| p.contains("Figure 1.")).unwrap();
+    let heading_page = pages
+        .iter()
+        .position(|p| p.lines().any(|l| l.trim() == "Figures"))
+        .unwrap();
+    assert!(heading_page <= fig_page);
+    assert!(
+        pages[heading_page].trim_start().starts_with("Figures"),
+        "the Figures heading starts its page"
     );
 }

@@ -657,3 +657,77 @@ impl Draw {
         t
     }
 }
+
+/// `plan --write`'s text (`scenario::as_written::planned_yaml`): the modules named after the
+/// plan's module, the grade as written, every quantity in the unit the user wrote it in (limits
+/// in g), no float noise, and it reads back to the planned layout.
+#[test]
+fn a_planned_scenario_is_written_as_the_user_wrote_it() {
+    use eddyzone::scenario::as_written::planned_yaml;
+    use eddyzone::scenario::Mount;
+    let text = std::fs::read_to_string(root().join("scenarios/coaster-plan.yaml")).unwrap();
+    let s = coaster_plan();
+    let p = s.plan.clone().unwrap();
+    // Slots 7, 14 and 19 at 5, 8 and 20 mm: the module starts are sums of the 1.6 m pitch.
+    let mut layout: Layout = vec![None; eddyzone::plan::slot_count(&p)];
+    layout[7] = Some(0);
+    layout[14] = Some(1);
+    layout[19] = Some(3);
+    let c = candidate_scenario(&s, &p, &layout);
+    let starts = [20.0 + 7.0 * 1.6, 20.0 + 14.0 * 1.6, 20.0 + 19.0 * 1.6];
+    // IEEE 754 double arithmetic: 20 + 7·1.6 is 31.200000000000003, not 31.2, …
+    assert_ne!(starts, [31.2, 42.4, 50.4]);
+    assert_eq!(c.sections[0].mount, Mount::Track { start_m: starts[0] });
+    let yaml = planned_yaml(&c, Some(&text)).unwrap();
+    for (name, start, clearance) in [
+        ("module-1", "31.2 m", "5 mm"),
+        ("module-2", "42.4 m", "8 mm"),
+        ("module-3", "50.4 m", "20 mm"),
+    ] {
+        let at = yaml
+            .find(&format!("name: {name}\n"))
+            .unwrap_or_else(|| panic!("{name}\n{yaml}"));
+        let entry = &yaml[at..];
+        let entry = &entry[..entry[1..].find("- name:").map_or(entry.len(), |e| e + 1)];
+        assert!(entry.contains(&format!("start: {start}\n")), "{entry}");
+        assert!(
+            entry.contains(&format!("clearance: {clearance}\n")),
+            "{entry}"
+        );
+        assert!(entry.contains("grade: N40H\n"), "{entry}");
+        assert!(entry.contains("pole_pitch: 50 mm\n"), "{entry}");
+    }
+    assert!(!yaml.contains("name: P1"), "{yaml}");
+    assert!(!yaml.contains("grade: H\n"), "{yaml}");
+    for unit_as_written in [
+        "mass: 7.4 t",
+        "speed: 75 km/h",
+        "length: 11 m",
+        "max_length: 48 m",
+    ] {
+        assert!(yaml.contains(unit_as_written), "{unit_as_written}\n{yaml}");
+    }
+    // Float noise would show as a run of zeros or nines before a last digit.
+    for noise in ["00000000", "99999999"] {
+        assert!(!yaml.contains(noise), "{noise}\n{yaml}");
+    }
+    // Limits in g (the limit file's accelerations), none in m/s².
+    assert!(!yaml.contains("m/s^2"), "{yaml}");
+    assert!(
+        yaml.contains(" g\n") || yaml.contains(" g }") || yaml.contains(" g,"),
+        "{yaml}"
+    );
+    // It reads back: the same layout, positions rounded (by less than 1e-11 m).
+    let back = parse_str(&yaml, "planned.yaml", None).unwrap();
+    let names: Vec<&str> = back.sections.iter().map(|x| x.name.as_str()).collect();
+    assert_eq!(names, ["module-1", "module-2", "module-3"]);
+    for (x, s0) in back.sections.iter().zip(starts) {
+        let Mount::Track { start_m } = x.mount else {
+            panic!("on the track")
+        };
+        assert!((start_m - s0).abs() < 1e-11, "{start_m} vs {s0}");
+        assert_eq!(x.grade.map(|g| g.name()), Some("N40H".to_string()));
+    }
+    assert_eq!(back.cases.len(), c.cases.len());
+    assert!(back.case("full/without-module-2").is_some());
+}

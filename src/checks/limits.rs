@@ -599,6 +599,11 @@ pub fn limit_warnings(scenario: &Scenario) -> Vec<String> {
     let axis = scenario.rider.track_axis;
     let k = axis as usize;
     let name = axis.name();
+    let axes = if scenario.rider.passengers {
+        "rider axes"
+    } else {
+        "vehicle axes"
+    };
     let forward = scenario.cases.iter().any(|c| c.start_speed_m_s >= 0.0);
     let backward =
         scenario.cases.iter().any(|c| c.start_speed_m_s < 0.0) || (lim.allow_rollback && forward);
@@ -629,7 +634,7 @@ pub fn limit_warnings(scenario: &Scenario) -> Vec<String> {
         if !peak_set {
             out.push(format!(
                 "limits.peak.{name}.{peak_key} is not set: braking {moving} gives {sign} {name} \
-                 (rider axes fixed to the vehicle), so the peak felt braking is unlimited"
+                 ({axes} fixed to the vehicle), so the peak felt braking is unlimited"
             ));
         }
         let env_given = lim.envelope[k].negative.is_some() || lim.envelope[k].positive.is_some();

@@ -72,8 +72,21 @@ impl RiderSignals {
     }
 }
 
-/// The sign convention of the felt acceleration for a rider block, in one sentence.
+/// The sign convention of the felt acceleration for a rider block, in one sentence (without
+/// passengers: the vehicle's axes and no rider's words).
 pub fn sign_convention(rider: &Rider) -> String {
+    if !rider.passengers {
+        let a = rider.track_axis.name();
+        let (fwd, back) = match rider.track_axis {
+            Axis::Z => ("+", "−"),
+            _ => ("−", "+"),
+        };
+        return format!(
+            "acceleration in g felt by the payload, on axes fixed to the vehicle (no passengers; \
+             track along {a}, vehicle facing +s): braking while moving towards +s is {fwd}{a}, \
+             braking while moving back is {back}{a}"
+        );
+    }
     match rider.track_axis {
         Axis::Z => "felt acceleration in g on rider axes fixed to the vehicle (track along the \
                     spine z): braking while descending is +z (into the seat), braking while \
@@ -88,6 +101,67 @@ pub fn sign_convention(rider: &Rider) -> String {
             )
         }
     }
+}
+
+/// "rider axis" with passengers, "vehicle axis" without.
+pub fn axis_word(rider: &Rider) -> &'static str {
+    if rider.passengers {
+        "rider axis"
+    } else {
+        "vehicle axis"
+    }
+}
+
+/// Columns of a run's profile: the felt acceleration at each sample on the track axis and the
+/// axis normal to the track (x and z), raw (from the sample) and filtered (the filtered signal
+/// of [`rider_signals`], linear between its grid points), in g: `(name, values)` named
+/// `felt_<axis>_raw_g` and `felt_<axis>_filtered_g`. Without a filter the two are equal; a run
+/// whose signals cannot be formed (too few samples) has no filtered values (`None`: empty cells).
+pub fn profile_columns(run: &RunResult, rider: &Rider) -> Vec<(String, Vec<Option<f64>>)> {
+    let sig = rider_signals(run, rider).ok();
+    let (along_index, along_sign) = match rider.track_axis {
+        Axis::Z => (2, -1.0),
+        _ => (0, 1.0),
+    };
+    let mut out = Vec::new();
+    for (k, name) in [(0usize, "x"), (2, "z")] {
+        let raw: Vec<Option<f64>> = run
+            .samples
+            .iter()
+            .map(|s| {
+                Some(if k == along_index {
+                    along_sign * felt_along_track_g(s, run.mass_kg)
+                } else {
+                    felt_normal_g(s)
+                })
+            })
+            .collect();
+        let filtered: Vec<Option<f64>> = run
+            .samples
+            .iter()
+            .map(|s| {
+                sig.as_ref()
+                    .and_then(|sig| at_time(&sig.filtered[k], s.t_s))
+            })
+            .collect();
+        out.push((format!("felt_{name}_raw_g"), raw));
+        out.push((format!("felt_{name}_filtered_g"), filtered));
+    }
+    out
+}
+
+/// A uniform signal at time `t_s`, linear between grid points, held at its ends; `None` for an
+/// empty signal.
+fn at_time(u: &UniformSignal, t_s: f64) -> Option<f64> {
+    let n = u.values.len();
+    if n == 0 {
+        return None;
+    }
+    let x = ((t_s - u.t0_s) / u.dt_s).clamp(0.0, (n - 1) as f64);
+    let i = (x.floor() as usize).min(n - 1);
+    let j = (i + 1).min(n - 1);
+    let f = x - i as f64;
+    Some(u.values[i] * (1.0 - f) + u.values[j] * f)
 }
 
 /// Why the felt acceleration of a run could not be formed.
@@ -241,6 +315,7 @@ mod tests {
             .collect();
         let r = run_with(samples);
         let seated = Rider {
+            passengers: true,
             track_axis: Axis::X,
             filter: None,
             rates: Default::default(),
@@ -249,6 +324,7 @@ mod tests {
         assert!((s.peaks()[0].raw_min_g + 1.0).abs() < 1e-12);
         assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
         let tower = Rider {
+            passengers: true,
             track_axis: Axis::Z,
             filter: Some(FilterSettings {
                 corner_hz: 5.0,
@@ -276,6 +352,7 @@ mod tests {
             .collect();
         let r = run_with(samples);
         let seated = Rider {
+            passengers: true,
             track_axis: Axis::X,
             filter: None,
             rates: Default::default(),
@@ -284,6 +361,7 @@ mod tests {
         assert!((s.peaks()[0].raw_max_g - 1.0).abs() < 1e-12);
         assert!(s.peaks()[0].raw_min_g > 0.999);
         let tower = Rider {
+            passengers: true,
             track_axis: Axis::Z,
             filter: None,
             rates: Default::default(),
@@ -294,9 +372,55 @@ mod tests {
     }
 
     #[test]
+    fn profile_columns_follow_the_samples() {
+        // Braking ramps up linearly: 0 to 1 g over 1 s on 1000 kg (9806.65 N = 1 g·1000 kg).
+        let samples: Vec<Sample> = (0..=1000)
+            .map(|i| {
+                let t = i as f64 * 1e-3;
+                sample(t, -9806.65 * t, 0.5)
+            })
+            .collect();
+        let r = run_with(samples);
+        let seated = Rider {
+            passengers: true,
+            track_axis: Axis::X,
+            filter: None,
+            rates: Default::default(),
+        };
+        let cols = profile_columns(&r, &seated);
+        let names: Vec<&str> = cols.iter().map(|c| c.0.as_str()).collect();
+        assert_eq!(
+            names,
+            [
+                "felt_x_raw_g",
+                "felt_x_filtered_g",
+                "felt_z_raw_g",
+                "felt_z_filtered_g"
+            ]
+        );
+        for (i, s) in r.samples.iter().enumerate() {
+            let raw_x = cols[0].1[i].unwrap();
+            assert!((raw_x + s.t_s).abs() < 1e-12, "raw x = -t g");
+            // Unfiltered: the resampled signal at the sample times (same 1 ms grid).
+            assert!((cols[1].1[i].unwrap() - raw_x).abs() < 1e-9);
+            assert_eq!(cols[2].1[i], Some(0.5));
+        }
+        // Along the spine the track axis is z and braking while descending is +z.
+        let tower = Rider {
+            track_axis: Axis::Z,
+            ..seated
+        };
+        let cols = profile_columns(&r, &tower);
+        assert_eq!(cols[2].0, "felt_z_raw_g");
+        assert!((cols[2].1[500].unwrap() - 0.5).abs() < 1e-12);
+        assert_eq!(cols[0].1[500], Some(0.5));
+    }
+
+    #[test]
     fn too_few_samples_is_an_error_not_a_silence() {
         let r = run_with(vec![sample(0.0, 0.0, 1.0)]);
         let seated = Rider {
+            passengers: true,
             track_axis: Axis::X,
             filter: None,
             rates: Default::default(),
@@ -320,6 +444,7 @@ mod tests {
             .collect();
         let r = run_with(samples);
         let rider = Rider {
+            passengers: true,
             track_axis: Axis::X,
             filter: None,
             rates: Default::default(),

@@ -37,7 +37,11 @@ pub fn execute(a: &HeatArgs) -> Result<i32, Error> {
     if a.input.json {
         emit(&pretty(&HeatJson::new(s, &heats))?)?;
     } else {
-        emit(&terminal::heat_text(s, &heats))?;
+        emit(&terminal::heat_text(
+            s,
+            &heats,
+            &study.heat_warnings(&heats),
+        ))?;
     }
     Ok(EXIT_OK)
 }

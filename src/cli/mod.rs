@@ -3,14 +3,17 @@
 //! `eddyzone::report`.
 
 pub mod check;
+pub mod completions;
 pub mod curve;
 pub mod error;
 pub mod heat;
+pub mod init;
 pub mod plan;
 pub mod progress;
 pub mod report;
 pub mod run;
 pub mod sweep;
+pub mod schema;
 
 use clap::{Parser, Subcommand};
 use eddyzone::scenario::{self, Scenario};
@@ -43,6 +46,14 @@ pub enum Command {
     Heat(heat::HeatArgs),
     /// Tolerance and uncertainty study of the `sweep:` block (exit 1 when a sample fails).
     Sweep(sweep::SweepArgs),
+    /// A commented starter scenario (tower, coaster, rollback, sled) that passes `check`.
+    Init(init::InitArgs),
+    /// The JSON Schema of the scenario format, for an editor's YAML support.
+    Schema(schema::SchemaArgs),
+    /// A shell completion script.
+    Completions(completions::CompletionsArgs),
+    /// The manual page (roff), of eddyzone or of one command.
+    Manpage(completions::ManpageArgs),
 }
 
 /// Runs a parsed command line; returns the exit code.
@@ -55,6 +66,10 @@ pub fn dispatch(cli: Cli) -> Result<i32, Error> {
         Command::Plan(a) => plan::execute(&a),
         Command::Heat(a) => heat::execute(&a),
         Command::Sweep(a) => sweep::execute(&a),
+        Command::Init(a) => init::execute(&a),
+        Command::Schema(a) => schema::execute(&a),
+        Command::Completions(a) => completions::completions(&a),
+        Command::Manpage(a) => completions::manpage(&a),
     }
 }
 

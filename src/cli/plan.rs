@@ -9,7 +9,8 @@ use clap::{Args, ValueEnum};
 use eddyzone::plan::{plan, Objective, PlanOptions};
 use eddyzone::report::json_out::{pretty, PlanJson};
 use eddyzone::report::{terminal::plan_text, write_file, OutputError};
-use eddyzone::scenario::write::to_yaml;
+use eddyzone::scenario::as_written::planned_yaml;
+use eddyzone::scenario::validate::read_input;
 use eddyzone::study::{Progress, Silent};
 use std::path::PathBuf;
 
@@ -114,7 +115,8 @@ pub fn execute(a: &PlanArgs) -> Result<i32, Error> {
     let r = r?;
     match (&a.write, r.feasible()) {
         (Some(path), Some(p)) => {
-            let yaml = to_yaml(&p.scenario).map_err(OutputError::from)?;
+            let units = read_input(&a.scenario).ok();
+            let yaml = planned_yaml(&p.scenario, units.as_deref()).map_err(OutputError::from)?;
             write_file(path, yaml.as_bytes())?;
             eprintln!(
                 "wrote {}: {} planned module(s) in place of the scenario's {} section(s)",

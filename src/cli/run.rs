@@ -44,13 +44,21 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
     };
     let results = study.run(&options)?;
     if let Some(dir) = &a.profile {
-        write_folder(dir, &csv_out::run_profiles(&results, "")?, Placement::Merge)?;
+        write_folder(
+            dir,
+            &csv_out::run_profiles(&results, &study.scenario().rider, "")?,
+            Placement::Merge,
+        )?;
     }
     let name = &study.scenario().name;
     if a.input.json {
         emit(&pretty(&RunJson::new(name, &results))?)?;
     } else {
-        emit(&terminal::run_text(name, &results))?;
+        emit(&terminal::run_text(
+            name,
+            &results,
+            &study.run_warnings(&results),
+        ))?;
     }
     Ok(EXIT_OK)
 }

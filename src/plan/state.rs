@@ -622,6 +622,7 @@ mod tests {
                 phase,
             }),
             rates: Default::default(),
+            passengers: true,
         }
     }
 

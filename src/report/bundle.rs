@@ -83,7 +83,7 @@ pub fn report_bundle(
         });
         rendered.push((f, svg));
     }
-    let profiles = csv_out::run_profiles(&judged.runs, "profile-")?;
+    let profiles = csv_out::run_profiles(&judged.runs, &s.rider, "profile-")?;
     let profile_count = profiles.len();
     files.extend(profiles);
     let summary = Summary {
@@ -103,6 +103,7 @@ pub fn report_bundle(
         scenario: s,
         input_name: source.input_name.clone(),
         input_sha256: sha,
+        input_text: String::from_utf8_lossy(source.input_bytes).into_owned(),
         runs: &judged.runs,
         verdict: &judged.verdict,
         heat: &judged.heat,

@@ -1,8 +1,10 @@
 //! CSV writers: force–speed curves and run profiles.
 
 use super::{unique_stems, OutputFile};
+use crate::checks::rider::profile_columns;
 use crate::curve::PairCurve;
 use crate::dynamics::{RunResult, Sample};
+use crate::scenario::Rider;
 use crate::thermal::{CaseHeat, TrackProfile};
 
 /// The curve CSV header.
@@ -88,16 +90,24 @@ pub fn profile_csv(
     w.into_inner().map_err(|e| csv::Error::from(e.into_error()))
 }
 
-/// One profile CSV per run, named `<prefix><case>.csv`.
-pub fn run_profiles(results: &[RunResult], prefix: &str) -> Result<Vec<OutputFile>, csv::Error> {
+/// One profile CSV per run, named `<prefix><case>.csv`, with the felt acceleration raw and
+/// filtered on the axes x and z ([`profile_columns`]) after the sample columns.
+pub fn run_profiles(
+    results: &[RunResult],
+    rider: &Rider,
+    prefix: &str,
+) -> Result<Vec<OutputFile>, csv::Error> {
     let stems = unique_stems(&results.iter().map(|r| &r.case).collect::<Vec<_>>());
     results
         .iter()
         .zip(stems)
         .map(|(r, stem)| {
+            let cols = profile_columns(r, rider);
+            let extra: Vec<(&str, Vec<Option<f64>>)> =
+                cols.iter().map(|(n, v)| (n.as_str(), v.clone())).collect();
             Ok(OutputFile {
                 name: format!("{prefix}{stem}.csv"),
-                bytes: profile_csv(&r.samples, &[])?,
+                bytes: profile_csv(&r.samples, &extra)?,
             })
         })
         .collect()

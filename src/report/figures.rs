@@ -177,7 +177,10 @@ pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
         });
     }
     Chart {
-        title: format!("Felt acceleration, rider axis {axis}"),
+        title: format!(
+            "Felt acceleration, {} {axis}",
+            crate::checks::rider::axis_word(&s.rider)
+        ),
         x_label: "time (s)".into(),
         y_label: format!("felt acceleration {axis} (g)"),
         series,
@@ -430,9 +433,11 @@ pub fn all_figures(
         },
         Figure {
             id: "felt-acceleration".into(),
-            caption: "Felt (specific) acceleration along the track in rider axes; dashed: raw, \
-                      solid: filtered; dashed grey: peak limits."
-                .into(),
+            caption: format!(
+                "Felt (specific) acceleration along the track in {}s; dashed: raw, solid: \
+                 filtered; dashed grey: peak limits.",
+                crate::checks::rider::axis_word(&s.rider)
+            ),
             chart: felt_acceleration(s, runs),
         },
         Figure {

@@ -8,6 +8,8 @@ use crate::dynamics::RunResult;
 use crate::report::figures::Figure;
 use crate::report::text::num;
 use crate::report::{CAUTION, VERSION};
+use crate::scenario::as_written::AsWritten;
+use crate::scenario::write::{to_yaml, to_yaml_with};
 use crate::scenario::Scenario;
 use crate::thermal::CaseHeat;
 use std::fmt::Write as _;
@@ -21,6 +23,8 @@ pub struct ReportInput<'a> {
     pub input_name: String,
     /// Lower-case hex SHA-256 of the input file's bytes.
     pub input_sha256: String,
+    /// The input file's text as the user wrote it.
+    pub input_text: String,
     /// Runs, in case order.
     pub runs: &'a [RunResult],
     /// The verdict.
@@ -62,7 +66,15 @@ color:#191919;line-height:1.4}table{border-collapse:collapse;margin:.5em 0 1em}\
 th,td{border:1px solid #bbb;padding:2px 6px;text-align:left;font-size:90%}th{background:#eee}\
 td.fail{color:#a00;font-weight:bold}td.pass{color:#060}pre{background:#f6f6f6;padding:.5em;\
 overflow:auto;font-size:85%;max-height:40em}figure{margin:1em 0}figure svg{max-width:100%;\
-height:auto}.caution{border:2px solid #a60;padding:.5em;background:#fff8ec}";
+height:auto}.caution{border:2px solid #a60;padding:.5em;background:#fff8ec}\
+pre.input{max-height:none;white-space:pre-wrap}\
+@media print{body{max-width:none;margin:0;padding:0;font-size:10pt}\
+pre,pre.input{max-height:none;overflow:visible;white-space:pre-wrap;background:none;font-size:8pt}\
+figure{break-inside:avoid;page-break-inside:avoid}figure svg{width:100%;max-height:24cm}\
+table{break-inside:auto}tr{break-inside:avoid;page-break-inside:avoid}\
+th,td{font-size:8pt;padding:1px 3px}h2{break-after:avoid;page-break-after:avoid}\
+h2#figures,h2#inputs-as-written{break-before:page;page-break-before:always}\
+.caution{background:none}}";
 
 /// The model, its assumptions and its limits of validity, as HTML list items.
 const MODEL_NOTES: [&str; 7] = [
@@ -71,16 +83,18 @@ const MODEL_NOTES: [&str; 7] = [
      equation, travelling-field solution); force is summed over harmonics.",
     "Two-dimensional theory: no longitudinal end effects at the entry and exit of a section; \
      the force of a pair is the per-length force times the fin–section overlap.",
-    "Finite fin height is accounted for by the Russell–Norsworthy edge factor (R. L. Russell and \
-     K. H. Norsworthy, \"Eddy currents and wall losses in screened-rotor induction motors\", \
-     Proc. IEE 105A, 1958), which holds for low speeds and thin sheets; above the critical \
-     speed it is an approximation.",
+    "Finite fin and pole height: a finite-height solution at every speed (the fin as thin \
+     laminae with the reaction field between the iron planes), whose low-speed limit is the \
+     Russell–Norsworthy edge factor (R. L. Russell and K. H. Norsworthy, \"Eddy currents and \
+     wall losses in screened-rotor induction motors\", Proc. IEE 105A, 1958); checked against \
+     an independent finite-element solution from 0.1 to 5 times the critical speed, not \
+     beyond (a warning says when runs go further).",
     "Recoil (relative) permeability of the magnets taken as 1; conductor resistivity and \
      magnet remanence are taken at each case's temperatures.",
     "Vehicle mass spread evenly along the vehicle length (gravity from the mean inclination \
      under the vehicle); the vehicle is rigid.",
     "Felt acceleration along the track is (brake + resistance)/(m g); filtered as the rider \
-     block sets (Butterworth low-pass).",
+     block sets, or by default (Butterworth low-pass).",
     "Concept-stage estimates: validity ends where the geometry leaves the thin-fin, small-gap \
      regime or where measured force curves are extrapolated beyond their range.",
 ];
@@ -188,6 +202,52 @@ fn runs_table(runs: &[RunResult], out: &mut String) {
 /// "first → steady" with `digits` decimals; a dash for a missing value.
 fn first_to_steady(first: Option<f64>, steady: Option<f64>, digits: usize) -> String {
     format!("{} → {}", num(first, digits), num(steady, digits))
+}
+
+/// The heating in short, before the figures: one row per case (passes, the hottest fin, its
+/// peak after the first pass and at the end) and the hottest fin of all against the limit.
+fn heating_summary(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
+    out.push_str("<h3 id=\"heating-summary\">Heating in short</h3>\n");
+    if heats.is_empty() {
+        out.push_str("<p>Fin heat was not computed.</p>\n");
+        return;
+    }
+    out.push_str(
+        "<table id=\"heat-summary\">\n<tr><th>case</th><th>passes</th><th>steady after</th>\
+         <th>hottest fin</th><th>peak after the first pass (°C)</th><th>peak at the end (°C)\
+         </th></tr>\n",
+    );
+    for h in heats {
+        let hottest = h
+            .fins
+            .iter()
+            .max_by(|a, b| {
+                a.steady_peak_temperature_c
+                    .total_cmp(&b.steady_peak_temperature_c)
+            })
+            .map(|f| f.fin.as_str())
+            .unwrap_or("");
+        let _ = writeln!(
+            out,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",
+            escape(&h.case),
+            h.cycles.len(),
+            h.cycles_to_steady
+                .map_or("—".to_string(), |c| c.to_string()),
+            escape(hottest),
+            num(Some(h.first_peak_fin_temperature_c), 1),
+            num(Some(h.steady_peak_fin_temperature_c), 1),
+        );
+    }
+    out.push_str("</table>\n");
+    if let Some(h) = crate::report::text::hottest_fin(s, heats) {
+        let _ = writeln!(
+            out,
+            "<p id=\"heat-hottest\">Hottest: {}. Per case and fin: Heating, after the \
+             figures.</p>",
+            escape(&h)
+        );
+    }
 }
 
 /// The Heating section: per case the duty-cycle summary and a table of its fins.
@@ -348,10 +408,8 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
                 .unwrap_or_default()
         );
     }
-    o.push_str("</table>\n<h3>Runs</h3>\n");
-    runs_table(r.runs, &mut o);
-
-    heating_section(s, r.heat, &mut o);
+    o.push_str("</table>\n");
+    heating_summary(s, r.heat, &mut o);
 
     // Figures.
     o.push_str("<h2 id=\"figures\">Figures</h2>\n");
@@ -366,6 +424,10 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
         );
     }
 
+    o.push_str("<h2 id=\"runs\">Runs</h2>\n");
+    runs_table(r.runs, &mut o);
+    heating_section(s, r.heat, &mut o);
+
     // Model.
     o.push_str("<h2 id=\"model\">Model, assumptions and limits of validity</h2>\n<ul>\n");
     for n in MODEL_NOTES {
@@ -373,18 +435,20 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
     }
     o.push_str("</ul>\n");
 
-    // Scenario as read.
-    o.push_str(
-        "<h2 id=\"scenario\">Scenario as read</h2>\n<p>The validated scenario in SI units; each \
-         field name ends in its unit (_m metres, _kg kilograms, _m_s metres per second, _t tesla, \
-         _c degrees Celsius, _s seconds, _g standard gravities, _per_k per kelvin).</p>\n",
+    // The inputs as written, then as read (every default explicit) in the same units.
+    let _ = writeln!(
+        o,
+        "<h2 id=\"inputs-as-written\">Inputs as written</h2>\n<p>The scenario file {} as \
+         given, line by line.</p>\n<pre class=\"input\" id=\"input-text\">{}</pre>",
+        escape(&r.input_name),
+        escape(&r.input_text)
     );
     let _ = writeln!(
         o,
-        "<table id=\"inputs\">\n<tr><th>vehicle mass (kg)</th><td>{}</td></tr>\n\
-         <tr><th>vehicle length (m)</th><td>{}</td></tr>\n<tr><th>fins</th><td>{}</td></tr>\n\
+        "<table id=\"inputs\">\n<tr><th>vehicle mass</th><td>{} kg</td></tr>\n\
+         <tr><th>vehicle length</th><td>{} m</td></tr>\n<tr><th>fins</th><td>{}</td></tr>\n\
          <tr><th>magnet sections</th><td>{}</td></tr>\n<tr><th>cases</th><td>{}</td></tr>\n\
-         <tr><th>zone (m)</th><td>{} to {}</td></tr>\n</table>",
+         <tr><th>zone</th><td>{} m to {} m</td></tr>\n</table>",
         s.vehicle.mass_kg,
         s.vehicle.length_m,
         s.fins.len(),
@@ -393,8 +457,19 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
         s.zone_start_m,
         s.zone_end_m
     );
-    let json = serde_json::to_string_pretty(s).unwrap_or_else(|e| format!("(not shown: {e})"));
-    let _ = writeln!(o, "<pre id=\"scenario-json\">{}</pre>", escape(&json));
+    o.push_str(
+        "<h2 id=\"scenario\">Scenario as read</h2>\n<p>The validated scenario written back in \
+         the file's units: every default explicit, repeats expanded into their copies, generated \
+         cases as the block that makes them, limits inline (accelerations in g).</p>\n",
+    );
+    let as_read = to_yaml_with(s, &AsWritten::new(&r.input_text))
+        .or_else(|_| to_yaml(s))
+        .unwrap_or_else(|e| format!("(not shown: {e})"));
+    let _ = writeln!(
+        o,
+        "<pre class=\"input\" id=\"scenario-as-read\">{}</pre>",
+        escape(&as_read)
+    );
     o.push_str("</body>\n</html>\n");
     o
 }

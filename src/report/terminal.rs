@@ -9,6 +9,7 @@ use crate::curve::PairCurve;
 use crate::dynamics::RunResult;
 use crate::plan::{Coverage, Objective, PlanOutcome, PlanResult, Planned, SearchStop};
 use crate::scenario::{Rider, Scenario};
+use crate::study::warnings::name_list;
 use crate::thermal::CaseHeat;
 
 /// Appends a formatted line to a `String`.
@@ -63,8 +64,9 @@ pub fn run_table(results: &[RunResult]) -> String {
     t.render()
 }
 
-/// The `run` document: title, table, warnings.
-pub fn run_text(scenario_name: &str, results: &[RunResult]) -> String {
+/// The `run` document: title, table, the warnings (each once, see
+/// [`crate::study::Study::run_warnings`]).
+pub fn run_text(scenario_name: &str, results: &[RunResult], warnings: &[String]) -> String {
     let mut out = String::new();
     outln!(
         out,
@@ -74,10 +76,8 @@ pub fn run_text(scenario_name: &str, results: &[RunResult]) -> String {
         if results.len() == 1 { "" } else { "s" }
     );
     out.push_str(&run_table(results));
-    for r in results {
-        for w in &r.warnings {
-            outln!(out, "warning: {}: {w}", r.case);
-        }
+    for w in warnings {
+        outln!(out, "warning: {w}");
     }
     out
 }
@@ -206,8 +206,10 @@ pub fn verdict_summary(v: &Verdict) -> String {
     out
 }
 
-/// The `heat` document: per case the cycles and the fins.
-pub fn heat_text(s: &Scenario, heats: &[CaseHeat]) -> String {
+/// The `heat` document: per case the cycles and the fins, then a summary (one row per case,
+/// the hottest fin against the fin-temperature limit) and the warnings (each once, see
+/// [`crate::study::Study::heat_warnings`]).
+pub fn heat_text(s: &Scenario, heats: &[CaseHeat], warnings: &[String]) -> String {
     let mut out = String::new();
     match &s.duty {
         Some(d) => outln!(
@@ -286,9 +288,57 @@ pub fn heat_text(s: &Scenario, heats: &[CaseHeat]) -> String {
             num(h.peak_decel_first_g, 3),
             num(h.peak_decel_steady_g, 3)
         );
-        for w in &h.warnings {
-            outln!(out, "warning: {}: {w}", h.case);
-        }
+    }
+    out.push_str(&heat_summary(s, heats));
+    for w in warnings {
+        outln!(out, "warning: {w}");
+    }
+    out
+}
+
+/// The end of the `heat` document: one row per case and the hottest fin of all.
+pub fn heat_summary(s: &Scenario, heats: &[CaseHeat]) -> String {
+    let mut out = String::new();
+    outln!(out, "\nSummary");
+    let mut t = Table::new(&[
+        "case",
+        "cycles",
+        "steady_after",
+        "hottest_fin",
+        "first_peak_c",
+        "steady_peak_c",
+        "exit_first_m_s",
+        "exit_steady_m_s",
+        "decel_first_g",
+        "decel_steady_g",
+    ]);
+    for h in heats {
+        let hottest = h
+            .fins
+            .iter()
+            .max_by(|a, b| {
+                a.steady_peak_temperature_c
+                    .total_cmp(&b.steady_peak_temperature_c)
+            })
+            .map(|f| f.fin.clone())
+            .unwrap_or_default();
+        t.row(vec![
+            h.case.clone(),
+            h.cycles.len().to_string(),
+            h.cycles_to_steady
+                .map_or("—".to_string(), |c| c.to_string()),
+            hottest,
+            num(Some(h.first_peak_fin_temperature_c), 1),
+            num(Some(h.steady_peak_fin_temperature_c), 1),
+            num(h.exit_speed_first_m_s, 2),
+            num(h.exit_speed_steady_m_s, 2),
+            num(h.peak_decel_first_g, 3),
+            num(h.peak_decel_steady_g, 3),
+        ]);
+    }
+    out.push_str(&t.render());
+    if let Some(h) = super::text::hottest_fin(s, heats) {
+        outln!(out, "hottest: {h}");
     }
     out
 }
@@ -455,24 +505,53 @@ pub fn plan_text(name: &str, r: &PlanResult) -> String {
     out
 }
 
-/// The `curve` document: a summary row per pair, then the points of the first pair of each
-/// distinct design (repeated copies share one curve).
+/// The pairs of `curves` grouped by design: pairs whose summary figures are identical (copies
+/// of a repeat, sections of one design on several lanes) share a group, in order of first
+/// appearance.
+pub fn designs(curves: &[PairCurve]) -> Vec<Vec<&PairCurve>> {
+    let key = |p: &PairCurve| {
+        (
+            p.critical_speed_m_s.to_bits(),
+            p.peak_force_per_m_n.to_bits(),
+            p.edge_factor.map(f64::to_bits),
+            p.gap_field_t.map(f64::to_bits),
+            p.skin_depth_at_critical_m.map(f64::to_bits),
+        )
+    };
+    let mut groups: Vec<Vec<&PairCurve>> = Vec::new();
+    for p in curves {
+        match groups.iter_mut().find(|g| key(g[0]) == key(p)) {
+            Some(g) => g.push(p),
+            None => groups.push(vec![p]),
+        }
+    }
+    groups
+}
+
+/// The `curve` document: one summary row per distinct design (the sections and fins it
+/// covers, how many pairs), then the points of each design.
 pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
     let mut out = String::new();
     outln!(out, "{scenario_name} — force–speed curves");
     let mut t = Table::new(&[
-        "section",
-        "fin",
+        "sections",
+        "fins",
+        "pairs",
         "critical_speed_m_s",
         "peak_force_per_m_n",
         "edge_factor",
         "gap_field_t",
         "skin_depth_at_critical_mm",
     ]);
-    for p in curves {
+    let groups = designs(curves);
+    for g in &groups {
+        let p = g[0];
+        let sections: Vec<&str> = g.iter().map(|c| c.section.as_str()).collect();
+        let fins: Vec<&str> = g.iter().map(|c| c.fin.as_str()).collect();
         t.row(vec![
-            p.section.clone(),
-            p.fin.clone(),
+            name_list(&sections),
+            name_list(&fins),
+            g.len().to_string(),
             num(Some(p.critical_speed_m_s), 3),
             num(Some(p.peak_force_per_m_n), 1),
             num(p.edge_factor, 4),
@@ -481,16 +560,8 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
         ]);
     }
     out.push_str(&t.render());
-    let mut seen: Vec<(&str, &str)> = Vec::new();
-    for p in curves {
-        let base = (
-            p.section.split('-').next().unwrap_or(&p.section),
-            p.fin.split('-').next().unwrap_or(&p.fin),
-        );
-        if seen.contains(&base) {
-            continue;
-        }
-        seen.push(base);
+    for g in &groups {
+        let p = g[0];
         outln!(out, "\n{} × {}", p.section, p.fin);
         let mut t = Table::new(&[
             "speed_m_s",

@@ -68,6 +68,38 @@ pub fn num(x: Option<f64>, digits: usize) -> String {
     }
 }
 
+/// The hottest fin of all cases in words: which fin, which case, its peak (the steady peak with
+/// a duty block, else the peak after the pass) and its margin to the fin-temperature limit;
+/// `None` without fins.
+pub fn hottest_fin(
+    s: &crate::scenario::Scenario,
+    heats: &[crate::thermal::CaseHeat],
+) -> Option<String> {
+    let (h, f) = heats
+        .iter()
+        .flat_map(|h| h.fins.iter().map(move |f| (h, f)))
+        .max_by(|a, b| {
+            a.1.steady_peak_temperature_c
+                .total_cmp(&b.1.steady_peak_temperature_c)
+        })?;
+    let limit = match s.limits.max_fin_temperature_c {
+        Some(l) => format!(
+            " against the limit of {l:.1} °C (margin {:.1} K)",
+            l - f.steady_peak_temperature_c
+        ),
+        None => " (no fin-temperature limit given)".to_string(),
+    };
+    let state = if s.duty.is_some() {
+        "steady peak"
+    } else {
+        "peak after the pass"
+    };
+    Some(format!(
+        "fin {} in case {}, {state} {:.1} °C{limit}",
+        f.fin, h.case, f.steady_peak_temperature_c
+    ))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

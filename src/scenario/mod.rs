@@ -2,11 +2,14 @@
 //! module), generated load cases (`cases`), every default of the format (`defaults`) and the
 //! writer back to YAML (`write`). Only the validated model reaches physics.
 
+pub mod as_written;
 pub mod bounds;
 pub mod cases;
 pub mod defaults;
 pub mod raw;
 pub mod sweep;
+pub mod schema;
+pub mod starters;
 pub mod validate;
 pub mod write;
 
@@ -108,9 +111,9 @@ pub enum ForceSource {
     Measured(MeasuredForce),
 }
 
-/// Magnet grade suffix, for the maximum working temperature.
+/// Magnet grade class (the suffix letters), for the maximum working temperature.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-pub enum MagnetGrade {
+pub enum GradeClass {
     /// N: 80 °C.
     N,
     /// M: 100 °C.
@@ -125,47 +128,91 @@ pub enum MagnetGrade {
     EH,
 }
 
-impl MagnetGrade {
-    /// The suffix letters (`N`, `SH`, ...), as `parse` reads them.
+impl GradeClass {
+    /// The suffix letters (`N`, `SH`, ...).
     pub fn suffix(self) -> &'static str {
         match self {
-            MagnetGrade::N => "N",
-            MagnetGrade::M => "M",
-            MagnetGrade::H => "H",
-            MagnetGrade::SH => "SH",
-            MagnetGrade::UH => "UH",
-            MagnetGrade::EH => "EH",
+            GradeClass::N => "N",
+            GradeClass::M => "M",
+            GradeClass::H => "H",
+            GradeClass::SH => "SH",
+            GradeClass::UH => "UH",
+            GradeClass::EH => "EH",
         }
     }
 
     /// Maximum working temperature, °C (common practice: sintered NdFeB grade tables).
     pub fn max_temperature_c(self) -> f64 {
         match self {
-            MagnetGrade::N => 80.0,
-            MagnetGrade::M => 100.0,
-            MagnetGrade::H => 120.0,
-            MagnetGrade::SH => 150.0,
-            MagnetGrade::UH => 180.0,
-            MagnetGrade::EH => 200.0,
+            GradeClass::N => 80.0,
+            GradeClass::M => 100.0,
+            GradeClass::H => 120.0,
+            GradeClass::SH => 150.0,
+            GradeClass::UH => 180.0,
+            GradeClass::EH => 200.0,
+        }
+    }
+}
+
+/// A sintered NdFeB magnet grade as written: its class (the working-temperature limit) and,
+/// when the name gives it, the energy-product number (`N40H`: 40, class H). Written back as
+/// [`MagnetGrade::name`], so `N40H` stays `N40H`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct MagnetGrade {
+    /// Class (suffix letters).
+    pub class: GradeClass,
+    /// The number of the name (maximum energy product in MGOe), when given.
+    pub number: Option<u16>,
+}
+
+impl MagnetGrade {
+    /// The suffix letters (`N`, `SH`, ...).
+    pub fn suffix(self) -> &'static str {
+        self.class.suffix()
+    }
+
+    /// Maximum working temperature, °C (common practice: sintered NdFeB grade tables).
+    pub fn max_temperature_c(self) -> f64 {
+        self.class.max_temperature_c()
+    }
+
+    /// The grade's name: `N40H`, `N42` with a number; the suffix letters (`SH`, `N`) without.
+    pub fn name(self) -> String {
+        match (self.number, self.class) {
+            (Some(n), GradeClass::N) => format!("N{n}"),
+            (Some(n), c) => format!("N{n}{}", c.suffix()),
+            (None, c) => c.suffix().to_string(),
         }
     }
 
-    /// Parses the suffix letters (`N`, `SH`, or a full name such as `N42SH`).
+    /// Parses the suffix letters (`N`, `SH`) or a full name (`N42SH`, `N40H`, `42SH`); case is
+    /// ignored.
     pub fn parse(text: &str) -> Option<Self> {
         let t = text.trim().to_ascii_uppercase();
-        let suffix: String = t
-            .trim_start_matches('N')
-            .trim_start_matches(|c: char| c.is_ascii_digit())
-            .to_string();
-        match suffix.as_str() {
-            "" => Some(MagnetGrade::N),
-            "M" => Some(MagnetGrade::M),
-            "H" => Some(MagnetGrade::H),
-            "SH" => Some(MagnetGrade::SH),
-            "UH" => Some(MagnetGrade::UH),
-            "EH" => Some(MagnetGrade::EH),
-            _ => None,
-        }
+        let rest = t.strip_prefix('N').unwrap_or(&t);
+        let digits = rest.len() - rest.trim_start_matches(|c: char| c.is_ascii_digit()).len();
+        let (number, suffix) = rest.split_at(digits);
+        let number = if number.is_empty() {
+            None
+        } else {
+            Some(number.parse::<u16>().ok()?)
+        };
+        let class = match suffix {
+            "" if number.is_some() || t.starts_with('N') => GradeClass::N,
+            "M" => GradeClass::M,
+            "H" => GradeClass::H,
+            "SH" => GradeClass::SH,
+            "UH" => GradeClass::UH,
+            "EH" => GradeClass::EH,
+            _ => return None,
+        };
+        Some(MagnetGrade { class, number })
+    }
+}
+
+impl Serialize for MagnetGrade {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.serialize_str(&self.name())
     }
 }
 
@@ -484,9 +531,13 @@ impl Default for FilterSettings {
     }
 }
 
-/// Rider orientation.
+/// Rider orientation (or, without passengers, the vehicle's axes).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Rider {
+    /// Whether the device carries people: a `rider:` block says so (unless it sets
+    /// `passengers: false`); without one the device is unmanned (a test sled, a freight
+    /// carrier) and output speaks of the vehicle's axes and the payload.
+    pub passengers: bool,
     /// The rider axis the track direction is.
     pub track_axis: Axis,
     /// `None` when filtering is switched off.
@@ -599,6 +650,8 @@ pub struct PlanSpec {
     pub zone_start_m: f64,
     /// m.
     pub max_length_m: f64,
+    /// Name of the module entry (`plan.module.name`).
+    pub module_name: String,
     /// Module length, m.
     pub module_length_m: f64,
     /// Module magnets (clearance is replaced by each setting).

@@ -5,6 +5,8 @@
 //! from, `Spanned` values without their locations, absent keys left out, point lists as flow
 //! pairs (`[a, b]`).
 
+use super::schema as k;
+use schemars::JsonSchema;
 use serde::de::{self, Deserializer, Visitor};
 use serde::{Deserialize, Serialize, Serializer};
 use serde_saphyr::{FlowSeq, Spanned};
@@ -84,11 +86,12 @@ fn opt_pairs<S: Serializer>(v: &Option<Vec<Vec<Q>>>, serializer: S) -> Result<S:
 }
 
 /// The whole scenario file.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawScenario {
     /// Format version; only 1 exists.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<u32>")]
     pub version: Option<Spanned<u32>>,
     /// A name for the scenario.
     pub name: String,
@@ -120,12 +123,15 @@ pub struct RawScenario {
     pub cases: Option<Vec<RawCase>>,
     /// Track position the vehicle's rear must pass to clear the zone.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub zone_end: Option<Q>,
     /// Speed below which the vehicle counts as stalled.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Speed>")]
     pub stall_speed: Option<Q>,
     /// Longest simulated time of one case.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Time>")]
     pub time_limit: Option<Q>,
     /// Integrator settings.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -135,6 +141,7 @@ pub struct RawScenario {
     pub rider: Option<RawRider>,
     /// A limit set file to read first (path relative to this scenario).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>")]
     pub limits_file: Option<Spanned<String>>,
     /// Acceptance limits (override the limit file's keys).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -154,35 +161,43 @@ pub struct RawScenario {
 }
 
 /// A custom material.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawMaterial {
     /// At 20 °C.
+    #[schemars(with = "k::Conductivity")]
     pub conductivity: Q,
     /// Temperature coefficient of resistance at 20 °C.
+    #[schemars(with = "k::TempCoefficient")]
     pub temp_coeff: Q,
     /// Density.
+    #[schemars(with = "k::Density")]
     pub density: Q,
     /// Specific heat capacity.
+    #[schemars(with = "k::SpecificHeat")]
     pub specific_heat: Q,
     /// Where the values come from.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub source: Option<String>,
     /// Softening point (a warning above it).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub softening: Option<Q>,
     /// Solidus (a warning at or above it).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub solidus: Option<Q>,
 }
 
 /// The vehicle.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawVehicle {
     /// Nominal mass.
+    #[schemars(with = "k::Mass")]
     pub mass: Q,
     /// Overall length, front to rear.
+    #[schemars(with = "k::Length")]
     pub length: Q,
     /// Fins carried by the vehicle.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -193,34 +208,43 @@ pub struct RawVehicle {
 }
 
 /// Identical copies of an element at a fixed pitch.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawRepeat {
     /// Number of copies (including the first).
+    #[schemars(with = "u32")]
     pub count: Spanned<u32>,
     /// Distance from one copy's start to the next.
+    #[schemars(with = "k::Length")]
     pub pitch: Q,
 }
 
 /// A conducting fin, on the vehicle (`offset`) or along the track (`start`).
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawFin {
     /// Unique name.
+    #[schemars(with = "String")]
     pub name: Spanned<String>,
     /// Vehicle front to the fin's leading edge (vehicle fins).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub offset: Option<Q>,
     /// Track position of the fin's upstream end (track fins).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub start: Option<Q>,
     /// Along the track.
+    #[schemars(with = "k::Length")]
     pub length: Q,
     /// Extent across the magnets' pole faces.
+    #[schemars(with = "k::Length")]
     pub height: Q,
     /// Across the gap.
+    #[schemars(with = "k::Length")]
     pub thickness: Q,
     /// A built-in or custom material name.
+    #[schemars(with = "String")]
     pub material: Spanned<String>,
     /// Lateral lane: fins and magnets interact only on the same lane (default `main`).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -231,56 +255,71 @@ pub struct RawFin {
 }
 
 /// A measured force–speed table.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawForceCurve {
     /// Fin temperature during the measurement.
+    #[schemars(with = "k::Temperature")]
     pub fin_temp: Q,
     /// Magnet temperature during the measurement (default 20 °C).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub magnet_temp: Option<Q>,
     /// `[speed, force per metre of overlap]` pairs.
     #[serde(serialize_with = "pairs")]
+    #[schemars(with = "Vec<(k::Speed, k::ForcePerLength)>")]
     pub points: Vec<Vec<Q>>,
 }
 
 /// A magnet section (track) or magnet unit (vehicle).
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSection {
     /// Unique name.
+    #[schemars(with = "String")]
     pub name: Spanned<String>,
     /// Track position of the upstream end (track sections).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub start: Option<Q>,
     /// Vehicle front to the unit's leading edge (vehicle magnets).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub offset: Option<Q>,
     /// Along the track.
+    #[schemars(with = "k::Length")]
     pub length: Q,
     /// Centre of one pole to the next.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub pole_pitch: Option<Q>,
     /// Each row, in the gap direction.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub magnet_thickness: Option<Q>,
     /// Magnet width / pole pitch.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
     pub magnet_fill: Option<Q>,
     /// At 20 °C.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::FluxDensity>")]
     pub remanence: Option<Q>,
     /// Reversible temperature coefficient of remanence.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::TempCoefficient>")]
     pub remanence_temp_coeff: Option<Q>,
     /// Magnet face to fin face, each side, fin centred.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub clearance: Option<Q>,
     /// Magnet extent across the fin.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub pole_height: Option<Q>,
     /// Magnet grade letter(s) (N, M, H, SH, UH, EH) for the temperature limit.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>")]
     pub grade: Option<Spanned<String>>,
     /// Measured table replacing the model.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -294,20 +333,24 @@ pub struct RawSection {
 }
 
 /// The track.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawTrack {
     /// Constant grade (rise over run; `-100 %` falls one metre per metre).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
     pub grade: Option<Q>,
     /// Constant inclination (`-90 deg` is a vertical fall).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Angle>")]
     pub angle: Option<Q>,
     /// `[position, elevation]` points.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "opt_pairs")]
+    #[schemars(with = "Option<Vec<(k::Length, k::Length)>>")]
     pub profile: Option<Vec<Vec<Q>>>,
     /// Air density.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Density>")]
     pub air_density: Option<Q>,
     /// Fins fixed along the track (vehicle-magnet arrangement).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -315,29 +358,34 @@ pub struct RawTrack {
 }
 
 /// Resistance to motion.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawResistance {
     /// Rolling coefficient μ (force μ·m·g·cos θ).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
     pub rolling: Option<Q>,
     /// Aerodynamic drag area Cd·A.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Area>")]
     pub drag_area: Option<Q>,
     /// Constant friction force.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Force>")]
     pub friction: Option<Q>,
 }
 
 /// Start state.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawStart {
     /// Track position of the vehicle's front.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub position: Option<Q>,
     /// Speed along the track (negative runs backwards).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Speed>")]
     pub speed: Option<Q>,
     /// The vehicle may start with fins already over magnets (e.g. held in a rollback zone).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -345,67 +393,82 @@ pub struct RawStart {
 }
 
 /// Temperatures.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawTemperatures {
     /// Fin temperature before the pass.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub fin: Option<Q>,
     /// Magnet temperature.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub magnet: Option<Q>,
 }
 
 /// One load or failure case.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawCase {
     /// Unique name.
+    #[schemars(with = "String")]
     pub name: Spanned<String>,
     /// Free text.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub description: Option<String>,
     /// Mass override.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Mass>")]
     pub mass: Option<Q>,
     /// Start override.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub start: Option<RawStart>,
     /// Fin temperature override.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub fin_temp: Option<Q>,
     /// Magnet temperature override.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub magnet_temp: Option<Q>,
     /// Sections (or magnet units) out of service.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<Vec<String>>")]
     pub disabled: Option<Vec<Spanned<String>>>,
     /// Resistance override (fields given replace the nominal ones).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub resistance: Option<RawResistance>,
     /// Model force factor: every section force of this case times this (default 1).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
     pub force_factor: Option<Q>,
 }
 
 /// Integrator settings.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSolver {
     /// Relative tolerance.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<f64>")]
     pub rtol: Option<Spanned<f64>>,
     /// Absolute tolerance.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<f64>")]
     pub atol: Option<Spanned<f64>>,
 }
 
 /// Rider axes.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawRider {
     /// The rider axis the track direction is: `x` or `z`.
+    #[schemars(with = "String", extend("enum" = ["x", "z"]))]
     pub track_axis: Spanned<String>,
+    /// Whether the device carries people (default true with a `rider:` block; a scenario
+    /// without one is unmanned).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub passengers: Option<bool>,
     /// Low-pass filter for limit evaluation.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub filter: Option<RawFilter>,
@@ -415,29 +478,33 @@ pub struct RawRider {
 }
 
 /// How onset and release are measured.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawRates {
     /// Central-difference window.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Time>")]
     pub window: Option<Q>,
     /// `filtered` (the default) or `raw`.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>", extend("enum" = ["filtered", "raw"]))]
     pub signal: Option<Spanned<String>>,
 }
 
 /// The two semi-axes of one rider axis in a combined-axis limit.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSides {
     /// Allowed level on the positive side.
+    #[schemars(with = "k::Acceleration")]
     pub positive: Q,
     /// Allowed magnitude on the negative side.
+    #[schemars(with = "k::Acceleration")]
     pub negative: Q,
 }
 
 /// Low-pass filter settings.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawFilter {
     /// Off switch.
@@ -445,56 +512,66 @@ pub struct RawFilter {
     pub enabled: Option<bool>,
     /// Corner frequency in Hz.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<f64>")]
     pub corner_hz: Option<Spanned<f64>>,
     /// Poles.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<u32>")]
     pub order: Option<Spanned<u32>>,
     /// Resampling rate in Hz.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<f64>")]
     pub sample_rate_hz: Option<Spanned<f64>>,
     /// `zero` (forward and backward, the default) or `causal` (one pass).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>", extend("enum" = ["zero", "causal"]))]
     pub phase: Option<Spanned<String>>,
 }
 
 /// A peak limit per sign.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSignedLimit {
     /// Largest positive value.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Acceleration>")]
     pub max: Option<Q>,
     /// Most negative value.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Acceleration>")]
     pub min: Option<Q>,
 }
 
 /// Envelope curves per sign.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSignedEnvelope {
     /// Positive side: `[duration, allowed]` points.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "opt_pairs")]
+    #[schemars(with = "Option<Vec<(k::Time, k::Acceleration)>>")]
     pub positive: Option<Vec<Vec<Q>>>,
     /// Negative side: `[duration, allowed magnitude]` points.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "opt_pairs")]
+    #[schemars(with = "Option<Vec<(k::Time, k::Acceleration)>>")]
     pub negative: Option<Vec<Vec<Q>>>,
 }
 
 /// A window.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawWindow {
     /// Lower bound.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Speed>")]
     pub min: Option<Q>,
     /// Upper bound.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Speed>")]
     pub max: Option<Q>,
 }
 
 /// One entry per rider axis: `x` fore–aft, `y` lateral, `z` along the spine.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawAxes<T> {
     /// Fore–aft.
@@ -509,7 +586,7 @@ pub struct RawAxes<T> {
 }
 
 /// Acceptance limits.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawLimits {
     /// Where these values come from.
@@ -523,9 +600,11 @@ pub struct RawLimits {
     pub envelope: Option<RawAxes<RawSignedEnvelope>>,
     /// Largest rate of change of braking deceleration.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Jerk>")]
     pub onset: Option<Q>,
     /// Largest rate at which braking deceleration falls away.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Jerk>")]
     pub release: Option<Q>,
     /// Combined-axis limits: two rider axes judged together on a quarter-ellipse boundary.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -535,6 +614,7 @@ pub struct RawLimits {
     pub exit_speed: Option<RawWindow>,
     /// Longest time in the zone.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Time>")]
     pub max_duration: Option<Q>,
     /// Window of the front position where the vehicle comes to rest (arresters, stopping brakes).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -547,14 +627,27 @@ pub struct RawLimits {
     pub allow_rollback: Option<bool>,
     /// Highest fin temperature.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub max_fin_temperature: Option<Q>,
     /// Highest magnet temperature.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub max_magnet_temperature: Option<Q>,
 }
 
+/// A limit set file (`limits_file:`): `limits:` and an optional name, nothing else.
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct RawLimitsFile {
+    /// A name for the limit set.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub name: Option<String>,
+    /// The limits.
+    pub limits: RawLimits,
+}
+
 /// Case generation.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawGenerate {
     /// One case per section out (N−1); `true` for every listed case.
@@ -562,6 +655,7 @@ pub struct RawGenerate {
     pub each_section_out: Option<bool>,
     /// Restrict N−1 to these cases.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<Vec<String>>")]
     pub each_section_out_of: Option<Vec<Spanned<String>>>,
     /// The full factorial of ranges.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -572,53 +666,65 @@ pub struct RawGenerate {
 }
 
 /// Corner ranges: each `[low, high]`.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawCorners {
     /// `[empty, full]`.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<[k::Mass; 2]>")]
     pub mass: Option<Vec<Q>>,
     /// `[cold, hot]`.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<[k::Temperature; 2]>")]
     pub fin_temp: Option<Vec<Q>>,
     /// `[cold, hot]`.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<[k::Temperature; 2]>")]
     pub magnet_temp: Option<Vec<Q>>,
     /// `[low, high]` entry speed.
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<[k::Speed; 2]>")]
     pub speed: Option<Vec<Q>>,
 }
 
 /// A rollback case.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawRollback {
     /// Speed entering backwards (magnitude).
+    #[schemars(with = "k::Speed")]
     pub speed: Q,
     /// Mass (default nominal).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Mass>")]
     pub mass: Option<Q>,
     /// Start position of the vehicle front (default: just downstream of the zone).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub position: Option<Q>,
 }
 
 /// Repeated dispatches.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawDuty {
     /// Time from one dispatch to the next.
+    #[schemars(with = "k::Time")]
     pub interval: Q,
     /// Number of cycles, or the text `until_steady`.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Cycles>")]
     pub cycles: Option<Spanned<CyclesText>>,
     /// Ambient air temperature.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Temperature>")]
     pub ambient: Option<Q>,
     /// Convective film coefficient on both fin faces.
+    #[schemars(with = "k::HeatTransfer")]
     pub film_coefficient: Q,
     /// Cap on cycles when running until steady.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<u32>")]
     pub max_cycles: Option<Spanned<u32>>,
 }
 
@@ -665,48 +771,57 @@ impl<'de> Deserialize<'de> for CyclesText {
 }
 
 /// The layout search.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawPlan {
     /// Track position where the zone may begin.
+    #[schemars(with = "k::Length")]
     pub zone_start: Q,
     /// Longest zone allowed.
+    #[schemars(with = "k::Length")]
     pub max_length: Q,
     /// The module catalogue entry (a section without start/name).
     pub module: RawSection,
     /// Clearance settings the module can be built with.
     #[serde(serialize_with = "flow_list")]
+    #[schemars(with = "Vec<k::Length>")]
     pub clearances: Vec<Q>,
     /// Smallest gap between modules.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub min_spacing: Option<Q>,
     /// Grid on which module starts are placed (default: module length + spacing).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
     pub slot_pitch: Option<Q>,
 }
 
 /// A tolerance and uncertainty study of one case.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSweep {
     /// The case the samples vary (default: the nominal case).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>")]
     pub case: Option<Spanned<String>>,
     /// `monte_carlo` (the default), `latin_hypercube`, `sobol` or `factorial`.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>")]
     pub method: Option<Spanned<String>>,
     /// Number of samples (not with `factorial`, which takes every combination).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<u64>")]
     pub samples: Option<Spanned<u64>>,
     /// Seed of the random and scrambled designs (default 0).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<u64>")]
     pub seed: Option<Spanned<u64>>,
     /// The uncertain inputs.
     pub inputs: RawSweepInputs,
 }
 
 /// The uncertain inputs of a sweep, each optional.
-#[derive(Debug, Default, Serialize, Deserialize)]
+#[derive(Debug, Default, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawSweepInputs {
     /// Vehicle mass.
@@ -739,31 +854,39 @@ pub struct RawSweepInputs {
 }
 
 /// One uncertain input: its distribution and, for sections and fins, its scope.
-#[derive(Debug, Serialize, Deserialize)]
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct RawUncertain {
     /// `normal`, `uniform`, `triangular` or `discrete`.
+    #[schemars(with = "String")]
     pub distribution: Spanned<String>,
     /// Mean (normal).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::AnyQuantity>")]
     pub mean: Option<Q>,
     /// Standard deviation (normal).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::AnyQuantity>")]
     pub std: Option<Q>,
     /// Lower end (uniform, triangular) or truncation bound (normal).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::AnyQuantity>")]
     pub min: Option<Q>,
     /// Most likely value (triangular).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::AnyQuantity>")]
     pub mode: Option<Q>,
     /// Upper end (uniform, triangular) or truncation bound (normal).
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::AnyQuantity>")]
     pub max: Option<Q>,
     /// The equally likely values (discrete).
     #[serde(skip_serializing_if = "Option::is_none", serialize_with = "flow")]
+    #[schemars(with = "Option<Vec<k::AnyQuantity>>")]
     pub values: Option<Vec<Q>>,
     /// `all` (one draw for every section or fin, the default) or `each` (one per section or
     /// fin); only for clearance, remanence and fin conductivity.
     #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<String>")]
     pub scope: Option<Spanned<String>>,
 }

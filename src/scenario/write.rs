@@ -308,7 +308,7 @@ impl Writer<'_> {
             )),
             clearance: d.and_then(|d| design("clearance", Kind::Length, d.clearance_m)),
             pole_height: d.and_then(|d| design("pole_height", Kind::Length, d.pole_height_m)),
-            grade: grade.map(|g| spanned(g.suffix().to_string())),
+            grade: grade.map(|g| spanned(g.name())),
             force_curve,
             lane: None,
             repeat: None,
@@ -536,6 +536,7 @@ impl Writer<'_> {
         };
         RawRider {
             track_axis: spanned(r.track_axis.name().to_string()),
+            passengers: (!r.passengers).then_some(false),
             filter: Some(filter),
             rates: Some(RawRates {
                 window: Some(self.q("rider.rates.window", Kind::Time, r.rates.window_s)),
@@ -678,7 +679,7 @@ impl Writer<'_> {
             zone_start: self.q("plan.zone_start", Kind::Length, p.zone_start_m),
             max_length: self.q("plan.max_length", Kind::Length, p.max_length_m),
             module: self.section_body(
-                "module",
+                &p.module_name,
                 p.module_length_m,
                 &ForceSource::Model(p.module.clone()),
                 p.module_remanence_temp_coeff_per_k,

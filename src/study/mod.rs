@@ -9,6 +9,7 @@
 //! draws one itself.
 
 pub mod progress;
+pub mod warnings;
 
 pub use crate::dynamics::model::TableCache;
 pub use progress::{Progress, Silent};
@@ -396,15 +397,16 @@ impl Study {
             (verdict(s, &runs, &temps), Vec::new())
         };
         let mut verdict = verdict;
-        // Fins past their softening point or solidus, once each, in the verdict's warnings.
-        for w in heat
-            .iter()
-            .flat_map(|h| &h.warnings)
-            .chain(runs.iter().flat_map(|r| &r.warnings))
-            .filter(|w| w.contains("softening point") || w.contains("solidus"))
-        {
-            if !verdict.warnings.contains(w) {
-                verdict.warnings.push(w.clone());
+        // The runs' and heat passes' warnings (measured curve left, creeping, fins past their
+        // softening point or solidus) and runs far above the critical speed, each said once.
+        let all_runs: Vec<&RunResult> = runs.iter().chain(&steady_runs).collect();
+        for w in self.warnings_of_runs(&all_runs).into_iter().chain(
+            self.heat_warnings(&heat)
+                .into_iter()
+                .filter(|w| w.contains("softening point") || w.contains("solidus")),
+        ) {
+            if !verdict.warnings.contains(&w) {
+                verdict.warnings.push(w);
             }
         }
         Ok(Judgement {
@@ -414,6 +416,38 @@ impl Study {
             heat_failure,
             verdict,
         })
+    }
+
+    /// The warnings of a set of runs, each said once: the runs' own warnings grouped by wording
+    /// (see [`warnings::grouped`]) and whether some run meets the magnets far above the
+    /// critical speed.
+    pub fn run_warnings(&self, runs: &[RunResult]) -> Vec<String> {
+        self.warnings_of_runs(&runs.iter().collect::<Vec<_>>())
+    }
+
+    /// [`Study::run_warnings`] of runs of any states (a case may appear more than once).
+    fn warnings_of_runs(&self, runs: &[&RunResult]) -> Vec<String> {
+        let items: Vec<(String, String)> = runs
+            .iter()
+            .flat_map(|r| r.warnings.iter().map(|w| (r.case.clone(), w.clone())))
+            .collect();
+        let mut out = warnings::grouped(&items, self.scenario.cases.len());
+        out.extend(warnings::far_above_critical(
+            &self.scenario,
+            &self.tables,
+            runs,
+        ));
+        out
+    }
+
+    /// The warnings of the heat of every case (grade limits, no steady state, the runs'
+    /// warnings), each said once (see [`warnings::grouped`]).
+    pub fn heat_warnings(&self, heats: &[CaseHeat]) -> Vec<String> {
+        let items: Vec<(String, String)> = heats
+            .iter()
+            .flat_map(|h| h.warnings.iter().map(|w| (h.case.clone(), w.clone())))
+            .collect();
+        warnings::grouped(&items, self.scenario.cases.len())
     }
 
     /// Force–speed curves of the section × fin pairs.

@@ -10,6 +10,7 @@ mod budget;
 mod cases;
 mod duty;
 mod limits;
+mod locate;
 mod plan;
 mod sections;
 mod settings;
@@ -194,20 +195,14 @@ pub fn parse_str(text: &str, file: &str, base: Option<&Path>) -> Result<Scenario
     let scenario = v.scenario(&raw, file_limits);
     match scenario {
         Some(s) if v.issues.is_empty() => Ok(s),
-        _ => Err(ScenarioError::Invalid {
-            file: file.to_string(),
-            issues: v.issues,
-        }),
+        _ => {
+            locate::fill(&mut v.issues, text);
+            Err(ScenarioError::Invalid {
+                file: file.to_string(),
+                issues: v.issues,
+            })
+        }
     }
-}
-
-/// A limit set file: `limits:` at the top, and nothing else but a name.
-#[derive(Debug, serde::Deserialize)]
-#[serde(deny_unknown_fields)]
-struct RawLimitsFile {
-    #[allow(dead_code)]
-    name: Option<String>,
-    limits: RawLimits,
 }
 
 /// Collects every problem of a file while turning raw shapes into the model.
@@ -521,7 +516,16 @@ impl Validator {
                 ),
             ),
         };
-        if fins.is_empty() {
+        let raw_fins = match arrangement {
+            Arrangement::FinsOnVehicle => raw.vehicle.fins.as_ref(),
+            Arrangement::MagnetsOnVehicle => track_fins,
+        };
+        let raw_sections = match arrangement {
+            Arrangement::FinsOnVehicle => raw.sections.as_ref(),
+            Arrangement::MagnetsOnVehicle => raw.vehicle.magnets.as_ref(),
+        };
+        // Only an empty list: an entry with a mistake has its own message.
+        if raw_fins.is_none_or(|f| f.is_empty()) {
             self.push(
                 vloc,
                 if arrangement == Arrangement::FinsOnVehicle {
@@ -532,7 +536,7 @@ impl Validator {
                 "at least one fin is needed",
             );
         }
-        if sections.is_empty() {
+        if raw_sections.is_none_or(|s| s.is_empty()) {
             self.push(
                 vloc,
                 if arrangement == Arrangement::FinsOnVehicle {

@@ -15,6 +15,7 @@ impl Validator {
         let zone_start = self.q(&p.zone_start, Kind::Length, "plan.zone_start");
         let max_length = self.positive(&p.max_length, Kind::Length, "plan.max_length");
         let module_length = self.positive(&p.module.length, Kind::Length, "plan.module.length");
+        self.check_name(&p.module.name, "plan.module.name");
         let body = self.section_body(&p.module, "plan.module", near);
         let mut clearances = Vec::new();
         for (i, q) in p.clearances.iter().enumerate() {
@@ -64,6 +65,7 @@ impl Validator {
         Some(PlanSpec {
             zone_start_m: zs,
             max_length_m: maxl,
+            module_name: p.module.name.value.clone(),
             module_length_m: ml,
             module,
             module_remanence_temp_coeff_per_k: beta,

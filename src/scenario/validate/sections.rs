@@ -185,7 +185,9 @@ impl Validator {
         }
         let raw_names: Vec<_> = raw.iter().map(|s| &s.name).collect();
         self.unique(
-            out.iter().map(|s| s.name.as_str()).zip(sources),
+            out.iter()
+                .map(|s| s.name.as_str())
+                .zip(sources.iter().copied()),
             &raw_names,
             path,
         );
@@ -195,17 +197,35 @@ impl Validator {
             .enumerate()
             .filter_map(|(i, s)| track_span(s.mount, s.length_m).map(|(a, b)| (i, a, b)))
             .collect();
+        let mut blamed: Vec<String> = Vec::new();
         for (k, &(i, a0, a1)) in spans.iter().enumerate() {
             for &(j, b0, b1) in &spans[k + 1..] {
                 if out[i].lane == out[j].lane && a0 < b1 - 1e-12 && b0 < a1 - 1e-12 {
+                    // Blamed on the entry of the later one (its start, or its repeat pitch
+                    // when copies of one entry overlap).
+                    let at = sources[j];
+                    let entry = &raw[at];
+                    let (field, l) = match (&entry.repeat, sources[i] == at) {
+                        (Some(r), true) => ("repeat.pitch", loc(&r.pitch.referenced)),
+                        _ => (
+                            "start",
+                            entry.start.as_ref().and_then(|q| loc(&q.referenced)),
+                        ),
+                    };
+                    let field_path = format!("{path}[{at}].{field}");
+                    // One mistake, one message: the first overlap an entry causes.
+                    if blamed.contains(&field_path) {
+                        continue;
+                    }
                     self.push(
-                        None,
-                        path,
+                        l.or_else(|| loc(&entry.name.referenced)),
+                        &field_path,
                         format!(
                             "sections '{}' and '{}' overlap along the track",
                             out[i].name, out[j].name
                         ),
                     );
+                    blamed.push(field_path);
                 }
             }
         }

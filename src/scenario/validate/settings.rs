@@ -36,6 +36,7 @@ impl Validator {
         let default_filter = FilterSettings::default();
         let Some(r) = r else {
             return Some(Rider {
+                passengers: false,
                 track_axis: if steep { Axis::Z } else { Axis::X },
                 filter: Some(default_filter),
                 rates: RateSettings::default(),
@@ -118,7 +119,7 @@ impl Validator {
                 }
                 if fs.corner_hz * 2.0 >= fs.sample_rate_hz {
                     self.push(
-                        None,
+                        f.corner_hz.as_ref().and_then(|c| super::loc(&c.referenced)),
                         "rider.filter.corner_hz",
                         "must be below half the sample rate",
                     );
@@ -129,6 +130,7 @@ impl Validator {
         };
         let rates = self.rates(r.rates.as_ref())?;
         Some(Rider {
+            passengers: r.passengers.unwrap_or(true),
             track_axis,
             filter,
             rates,

@@ -125,7 +125,8 @@ fn profile_rules() {
     let i = issues(&t);
     assert_eq!(i[0].path, "track.profile");
     assert_eq!(i[0].message, "at least two points are needed");
-    assert_eq!(i[0].location, None);
+    // Found across the list: located where the list is written.
+    assert_eq!(i[0].location, Some(line_col(&t, "[[0 m, 0 m]]")));
 
     let t = format!("{base}track: {{ profile: [[0 m, 0 m], [5 m]] }}\n");
     let i = issues(&t);
@@ -162,7 +163,7 @@ fn envelope_rules() {
     let i = issues(&t);
     assert_eq!(i[0].path, "limits.envelope.x.negative");
     assert_eq!(i[0].message, "at least one point is needed");
-    assert_eq!(i[0].location, None);
+    assert_eq!(i[0].location, Some(line_col(&t, "[] }")));
 
     // Equal durations make a step and are accepted; levels are kept in g.
     let t = format!("{base}limits: {{ envelope: {{ x: {{ negative: [[0 s, 2 g], [1 s, 2 g], [1 s, 1 g]] }} }} }}\n");
@@ -288,4 +289,27 @@ fn a_default_backwards_entry_starts_just_past_the_zone_and_says_so() {
         }
     );
     assert_eq!(r.start_position_m, 20.0);
+}
+
+#[test]
+fn grades_keep_their_written_name() {
+    use crate::scenario::{GradeClass, MagnetGrade};
+    // Sintered NdFeB grade names: N + energy product in MGOe + class letters (common practice).
+    for (text, name, class, limit_c) in [
+        ("N40H", "N40H", GradeClass::H, 120.0),
+        ("n42sh", "N42SH", GradeClass::SH, 150.0),
+        ("N35", "N35", GradeClass::N, 80.0),
+        ("SH", "SH", GradeClass::SH, 150.0),
+        ("N", "N", GradeClass::N, 80.0),
+        ("38UH", "N38UH", GradeClass::UH, 180.0),
+    ] {
+        let g = MagnetGrade::parse(text).unwrap_or_else(|| panic!("{text}"));
+        assert_eq!(g.class, class, "{text}");
+        assert_eq!(g.name(), name, "{text}");
+        assert_eq!(g.max_temperature_c(), limit_c, "{text}");
+        assert_eq!(MagnetGrade::parse(&g.name()), Some(g), "{text} reads back");
+    }
+    for bad in ["", "N40X", "H40", "N99999999H"] {
+        assert_eq!(MagnetGrade::parse(bad), None, "{bad}");
+    }
 }
