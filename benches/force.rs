@@ -1,11 +1,17 @@
 //! Benchmarks of the drag law: one direct model evaluation, one table evaluation, building a
-//! table, and the critical-speed search (through `DragModel::new`, which performs it).
+//! table, and the critical-speed search (through `DragModel::new`, which performs it), each with
+//! the finite-height factor and with the Russell–Norsworthy conductivity factor of the model
+//! before it; the section-end and fin-end tables, the section-end curve of the runs and the
+//! uncertainty band.
 
 // A test or benchmark may stop at the first surprise.
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use eddyzone::physics::{BrakeGeometry, DragModel, ForceTable};
+use eddyzone::physics::{
+    BrakeGeometry, DragModel, EdgeModel, EndTable, FinEndTable, ForceTable, ModelUncertainty,
+    SectionEndCurve,
+};
 use std::hint::black_box;
 
 /// Typical section of the physics brief: copper fin, NdFeB magnets.
@@ -20,6 +26,15 @@ fn benches(c: &mut Criterion) {
         Err(error) => panic!("typical geometry must be valid: {error}"),
     };
     let table = ForceTable::build(&model, 60.0);
+    let old = match DragModel::with_edge_model(
+        &geometry,
+        1.25,
+        58e6,
+        EdgeModel::RussellNorsworthyConductivity,
+    ) {
+        Ok(model) => model,
+        Err(error) => panic!("typical geometry must be valid: {error}"),
+    };
 
     let mut speed = 0.0_f64;
     c.bench_function("direct model evaluation", |b| {
@@ -28,6 +43,16 @@ fn benches(c: &mut Criterion) {
             black_box(model.force_per_area_pa(black_box(speed)))
         })
     });
+    let mut speed = 0.0_f64;
+    c.bench_function(
+        "direct model evaluation, Russell-Norsworthy sigma_e (before)",
+        |b| {
+            b.iter(|| {
+                speed = if speed > 59.0 { 0.137 } else { speed + 0.731 };
+                black_box(old.force_per_area_pa(black_box(speed)))
+            })
+        },
+    );
     let mut speed = 0.0_f64;
     c.bench_function("table evaluation", |b| {
         b.iter(|| {
@@ -47,6 +72,46 @@ fn benches(c: &mut Criterion) {
     });
     c.bench_function("model construction with critical-speed search", |b| {
         b.iter(|| black_box(DragModel::new(black_box(&geometry), 1.25, 58e6)))
+    });
+    c.bench_function(
+        "model construction, Russell-Norsworthy sigma_e (before)",
+        |b| {
+            b.iter(|| {
+                black_box(DragModel::with_edge_model(
+                    black_box(&geometry),
+                    1.25,
+                    58e6,
+                    EdgeModel::RussellNorsworthyConductivity,
+                ))
+            })
+        },
+    );
+    c.bench_function(
+        "build table to 60 m/s, Russell-Norsworthy sigma_e (before)",
+        |b| b.iter(|| black_box(ForceTable::build(black_box(&old), 60.0))),
+    );
+    c.bench_function("section end table", |b| {
+        b.iter(|| black_box(EndTable::new(black_box(&geometry), 58e6)))
+    });
+    c.bench_function("section end curve to 60 m/s (the runs')", |b| {
+        b.iter(|| black_box(SectionEndCurve::new(black_box(&geometry), 58e6, 60.0)))
+    });
+    let ends = match SectionEndCurve::new(&geometry, 58e6, 60.0) {
+        Ok(curve) => curve,
+        Err(error) => panic!("typical geometry must be valid: {error}"),
+    };
+    let mut speed = 0.0_f64;
+    c.bench_function("section end curve evaluation", |b| {
+        b.iter(|| {
+            speed = if speed > 59.0 { 0.137 } else { speed + 0.731 };
+            black_box(ends.total_m_scaled(black_box(speed), 1.01))
+        })
+    });
+    c.bench_function("fin end table", |b| {
+        b.iter(|| black_box(FinEndTable::new(black_box(&geometry), 58e6)))
+    });
+    c.bench_function("uncertainty band", |b| {
+        b.iter(|| black_box(ModelUncertainty::new(black_box(&model))))
     });
 }
 

@@ -1,11 +1,14 @@
 //! Force–speed curves of each section × fin pair of a scenario, at given fin and magnet
-//! temperatures (exact rescaling of the 20 °C model: σ·v and Br²).
+//! temperatures (exact rescaling of the 20 °C model: σ·v and Br²), with the section's end length
+//! and the model's uncertainty band ([`crate::physics::uncertainty`]) at every speed.
 
 use crate::constants::REFERENCE_TEMPERATURE_C;
-use crate::dynamics::model::{remanence_ratio, BrakeTables, PairLaw};
-use crate::physics::{skin_depth_m, DragModel};
+use crate::dynamics::model::{remanence_ratio, section_end_factor, BrakeTables, PairLaw};
+use crate::dynamics::DynamicsError;
+use crate::physics::{skin_depth_m, DragModel, ModelUncertainty, SectionEndCurve};
 use crate::scenario::Scenario;
 use serde::Serialize;
+use std::sync::Arc;
 
 /// One point of a curve.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -16,10 +19,22 @@ pub struct CurvePoint {
     pub force_per_area_pa: Option<f64>,
     /// Fundamental only, Pa (None for measured curves).
     pub force_per_area_fundamental_pa: Option<f64>,
-    /// Per metre of overlap, N/m.
+    /// Per metre of overlap of a long section, N/m.
     pub force_per_m_n: f64,
-    /// With the fin fully overlapping the section (min of the two lengths), N.
+    /// With the fin fully overlapping the section (min of the two lengths), N: per metre times
+    /// that length times the section-end share 1 − ℓ/L, as the equations of motion use it.
     pub force_full_overlap_n: f64,
+    /// The section's end length ℓ (entry plus exit), m (None for measured curves).
+    pub section_end_length_m: Option<f64>,
+    /// Lower edge of the model's uncertainty band, relative (e.g. −0.08; None for measured
+    /// curves).
+    pub band_low_fraction: Option<f64>,
+    /// Upper edge of the band, relative (None for measured curves).
+    pub band_high_fraction: Option<f64>,
+    /// `force_full_overlap_n` at the band's lower edge, N (None for measured curves).
+    pub force_full_overlap_low_n: Option<f64>,
+    /// `force_full_overlap_n` at the band's upper edge, N (None for measured curves).
+    pub force_full_overlap_high_n: Option<f64>,
 }
 
 /// The curve of one section × fin pair.
@@ -87,8 +102,14 @@ fn matches(name: &str, wanted: &str) -> bool {
             .is_some_and(|r| r.starts_with('-') && r[1..].chars().all(|c| c.is_ascii_digit()))
 }
 
-/// Curves of every pair (or one section's pairs).
-pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions) -> Vec<PairCurve> {
+/// Curves of every pair (or one section's pairs). The uncertainty band is computed once per
+/// distinct design; it fails (naming the pair) when its extra edge solutions degenerate.
+pub fn curves(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    options: &CurveOptions,
+) -> Result<Vec<PairCurve>, DynamicsError> {
+    let mut bands: Vec<(Arc<DragModel>, Arc<ModelUncertainty>)> = Vec::new();
     let case = scenario.cases.first();
     let fin_t = options
         .fin_temp_c
@@ -113,19 +134,39 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
             PairLaw::Table {
                 model,
                 active_height_m,
+                section_ends,
+                inverse_section_length_per_m,
                 ..
             } => {
+                let band = match bands.iter().find(|(m, _)| Arc::ptr_eq(m, model)) {
+                    Some((_, b)) => b.clone(),
+                    None => {
+                        let b = Arc::new(
+                            ModelUncertainty::new(model)
+                                .map_err(|source| DynamicsError::physics(fin, sec, source))?,
+                        );
+                        bands.push((model.clone(), b.clone()));
+                        b
+                    }
+                };
                 let sr = 1.0 / rho;
                 let br = remanence_ratio(
                     sec.remanence_temp_coeff_per_k,
                     mag_t,
                     REFERENCE_TEMPERATURE_C,
                 );
+                let design = Design {
+                    model,
+                    band: &band,
+                    ends: section_ends,
+                    height_m: *active_height_m,
+                    inverse_section_length_per_m: *inverse_section_length_per_m,
+                    fin_length_m: fin.length_m,
+                };
                 out.push(model_curve(
                     &sec.name,
                     &fin.name,
-                    model,
-                    *active_height_m,
+                    &design,
                     full,
                     sr,
                     br,
@@ -149,6 +190,11 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
                         force_per_area_fundamental_pa: None,
                         force_per_m_n: f(v),
                         force_full_overlap_n: f(v) * full,
+                        section_end_length_m: None,
+                        band_low_fraction: None,
+                        band_high_fraction: None,
+                        force_full_overlap_low_n: None,
+                        force_full_overlap_high_n: None,
                     })
                     .collect();
                 // Peak of the measured data (a monotone interpolant peaks at a data point).
@@ -170,32 +216,49 @@ pub fn curves(scenario: &Scenario, tables: &BrakeTables, options: &CurveOptions)
             }
         }
     }
-    out
+    Ok(out)
 }
 
-#[allow(clippy::too_many_arguments)]
+/// What a model curve is drawn from.
+struct Design<'a> {
+    model: &'a DragModel,
+    band: &'a ModelUncertainty,
+    ends: &'a SectionEndCurve,
+    height_m: f64,
+    inverse_section_length_per_m: f64,
+    fin_length_m: f64,
+}
+
 fn model_curve(
     section: &str,
     fin: &str,
-    model: &DragModel,
-    height: f64,
+    d: &Design<'_>,
     full: f64,
     sigma_ratio: f64,
     br: f64,
     speeds: &[f64],
 ) -> PairCurve {
+    let (model, height) = (d.model, d.height_m);
     let k = br * br;
     let points = speeds
         .iter()
         .map(|&v| {
             let f = k * model.force_per_area_pa(v * sigma_ratio);
             let f1 = k * model.force_per_area_fundamental_pa(v * sigma_ratio);
+            let ell = d.ends.total_m_scaled(v, sigma_ratio);
+            let whole = f * height * full * section_end_factor(ell, d.inverse_section_length_per_m);
+            let band = d.band.band_for_fin(v, sigma_ratio, d.fin_length_m);
             CurvePoint {
                 speed_m_s: v,
                 force_per_area_pa: Some(f),
                 force_per_area_fundamental_pa: Some(f1),
                 force_per_m_n: f * height,
-                force_full_overlap_n: f * height * full,
+                force_full_overlap_n: whole,
+                section_end_length_m: Some(ell),
+                band_low_fraction: Some(band.low),
+                band_high_fraction: Some(band.high),
+                force_full_overlap_low_n: Some(whole * (1.0 + band.low)),
+                force_full_overlap_high_n: Some(whole * (1.0 + band.high)),
             }
         })
         .collect();

@@ -63,7 +63,12 @@ fn curve_csv_and_json_parse_back() {
                 "force_per_area_pa",
                 "force_per_area_fundamental_pa",
                 "force_per_m_n",
-                "force_full_overlap_n"
+                "force_full_overlap_n",
+                "section_end_length_m",
+                "band_low_fraction",
+                "band_high_fraction",
+                "force_full_overlap_low_n",
+                "force_full_overlap_high_n"
             ]
         );
         let rows: Vec<csv::StringRecord> = rdr.records().map(|r| r.unwrap()).collect();
@@ -71,6 +76,15 @@ fn curve_csv_and_json_parse_back() {
         for r in &rows {
             let f: f64 = r[5].parse().unwrap();
             assert!(f.is_finite() && f >= 0.0);
+            // The model's band brackets the force of the fully overlapped section.
+            let full: f64 = r[6].parse().unwrap();
+            let (low, high): (f64, f64) = (r[10].parse().unwrap(), r[11].parse().unwrap());
+            assert!(low <= full && full <= high, "{p}: {low} {full} {high}");
+            let (bl, bh): (f64, f64) = (r[8].parse().unwrap(), r[9].parse().unwrap());
+            assert!(
+                bl < 0.0 && bh > 0.0 && bl > -0.5 && bh < 0.5,
+                "{p}: {bl} {bh}"
+            );
         }
 
         let o = run(&["curve", p, "--format", "json"], tmp.path());

@@ -97,7 +97,7 @@ fn refused(command: &[&str], text: &str, field: &str) -> String {
 #[test]
 fn track_fins_longer_than_any_track_are_refused() {
     for len in ["1e18 m", "1e15 m", "1e6 m"] {
-        let t = tower(|s| s.replacen("length: 24 m", &format!("length: {len}"), 1));
+        let t = tower(|s| s.replacen("length: 25 m", &format!("length: {len}"), 1));
         for cmd in ["heat", "check"] {
             let e = refused(&[cmd], &t, "track.fins[0].length");
             assert!(e.contains("100 km"), "{e}");

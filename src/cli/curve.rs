@@ -83,7 +83,7 @@ pub fn execute(a: &CurveArgs) -> Result<i32, Error> {
         fin_temp_c: temperature_option("--fin-temp", &a.fin_temp)?,
         magnet_temp_c: temperature_option("--magnet-temp", &a.magnet_temp)?,
     };
-    let c = study.curves(&opts);
+    let c = study.curves(&opts)?;
     if c.is_empty() {
         let names: Vec<_> = study
             .scenario()

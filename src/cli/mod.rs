@@ -12,8 +12,8 @@ pub mod plan;
 pub mod progress;
 pub mod report;
 pub mod run;
-pub mod sweep;
 pub mod schema;
+pub mod sweep;
 
 use clap::{Parser, Subcommand};
 use eddyzone::scenario::{self, Scenario};

@@ -62,7 +62,8 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         input_bytes: input.as_bytes(),
         generated: generation_stamp(),
     };
-    let bundle = report_bundle(&study, &judged, &source)?;
+    let curves = study.default_curves()?;
+    let bundle = report_bundle(&study, &judged, &curves, &source)?;
     write_folder(&a.out, &bundle.files, Placement::Replace)?;
     eprintln!(
         "wrote {} ({} figures, {} profiles): {}",

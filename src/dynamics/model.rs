@@ -4,11 +4,18 @@
 //! Force tables are built once per scenario at the reference state (20 °C fin, 20 °C magnets)
 //! and rescaled exactly: the layer force depends on conductivity and speed only through σ·v, and
 //! on remanence as Br², so a fin at T sees f_ref(v·σ(T)/σ20)·(Br(T)/Br20)².
+//!
+//! A section of length L (N poles) brakes like a long section shortened by its end length ℓ(v)
+//! ([`crate::physics::ends`]): the force per metre of overlap is scaled by
+//! [`section_end_factor`] = 1 − ℓ(v)/L. Spread over the overlap this way, the energy of a whole
+//! passage is exact to first order in ℓ whether the fin or the section is the longer element
+//! (each section end spends a fin length inside the overlap window, and the window's area is
+//! L·L_f), and the overlap stays linear between kinks.
 
 use super::overlap::Overlap;
 use super::DynamicsError;
 use crate::constants::REFERENCE_TEMPERATURE_C;
-use crate::physics::{BrakeGeometry, DragModel, ForceTable, MeasuredCurve};
+use crate::physics::{BrakeGeometry, DragModel, ForceTable, MeasuredCurve, SectionEndCurve};
 use crate::scenario::{
     Arrangement, Case, Fin, ForceSource, MagnetDesign, Mount, Scenario, Section,
 };
@@ -25,6 +32,10 @@ pub enum PairLaw {
         model: Arc<DragModel>,
         /// m.
         active_height_m: f64,
+        /// End length ℓ(v) of the section's design at 20 °C.
+        section_ends: Arc<SectionEndCurve>,
+        /// 1 / length of the section (the magnet element), 1/m.
+        inverse_section_length_per_m: f64,
     },
     /// Measured force per metre of overlap.
     Measured {
@@ -181,6 +192,7 @@ struct CachedTable {
     max_speed_m_s: f64,
     table: Arc<ForceTable>,
     model: Arc<DragModel>,
+    section_ends: Arc<SectionEndCurve>,
 }
 
 impl TableCache {
@@ -279,24 +291,31 @@ fn pair_law(
         ForceSource::Model(design) => {
             let g = geometry(fin, design);
             let key = design_key(&g, design.remanence_t, fin.material.conductivity_s_m);
-            let (table, model) = match cache.find(&key, vmax) {
-                Some(c) => (c.table, c.model),
+            let (table, model, section_ends) = match cache.find(&key, vmax) {
+                Some(c) => (c.table, c.model, c.section_ends),
                 None => {
                     let model = Arc::new(model_in(fin, sec, design)?);
                     let table = Arc::new(ForceTable::build(&model, vmax));
+                    let section_ends = Arc::new(
+                        SectionEndCurve::new(&g, fin.material.conductivity_s_m, vmax)
+                            .map_err(|source| DynamicsError::physics(fin, sec, source))?,
+                    );
                     cache.insert(CachedTable {
                         key,
                         max_speed_m_s: vmax,
                         table: table.clone(),
                         model: model.clone(),
+                        section_ends: section_ends.clone(),
                     });
-                    (table, model)
+                    (table, model, section_ends)
                 }
             };
             Ok(PairLaw::Table {
                 active_height_m: model.geometry().active_height_m(),
                 table,
                 model,
+                section_ends,
+                inverse_section_length_per_m: 1.0 / sec.length_m,
             })
         }
         ForceSource::Measured(m) => {
@@ -399,12 +418,22 @@ impl ActivePair {
             PairLaw::Table {
                 table,
                 active_height_m,
+                section_ends,
+                inverse_section_length_per_m,
                 ..
             } => {
-                // f = Br²·f_ref(|v|·σ_k)·h_a·sign(v) for each part.
+                // f = Br²·f_ref(|v|·σ_k)·h_a·(1 − ℓ(v, σ_k)/L)·sign(v) for each part.
                 let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
                 let sum: f64 = parts
-                    .map(|(inv_rho, part)| table.force_per_area_pa(scale * inv_rho) * part)
+                    .map(|(inv_rho, part)| {
+                        let sigma_ratio = self.reference_resistivity_ratio * inv_rho;
+                        table.force_per_area_pa(scale * inv_rho)
+                            * part
+                            * section_end_factor(
+                                section_ends.total_m_scaled(speed_m_s, sigma_ratio),
+                                *inverse_section_length_per_m,
+                            )
+                    })
                     .sum();
                 let r2 = self.remanence_ratio * self.remanence_ratio;
                 let f = self.force_factor * r2 * sum * active_height_m;
@@ -430,10 +459,16 @@ impl ActivePair {
             PairLaw::Table {
                 table,
                 active_height_m,
+                section_ends,
+                inverse_section_length_per_m,
                 ..
             } => {
                 table.force_per_area_scaled_pa(speed_m_s, sigma_ratio, self.remanence_ratio)
                     * active_height_m
+                    * section_end_factor(
+                        section_ends.total_m_scaled(speed_m_s, sigma_ratio),
+                        *inverse_section_length_per_m,
+                    )
             }
             PairLaw::Measured { curve, .. } => {
                 self.remanence_ratio
@@ -453,6 +488,19 @@ impl ActivePair {
                     / self.resistivity_ratio(fin_temp_c),
             ),
         }
+    }
+}
+
+/// The share of a long section's force that a section of length L (`inverse_length_per_m` =
+/// 1/L) with end length `end_length_m` (m) gives: 1 − ℓ/L, not below 0 (a section shorter than
+/// its end length); NaN stays NaN.
+#[inline(always)]
+pub fn section_end_factor(end_length_m: f64, inverse_length_per_m: f64) -> f64 {
+    let share = 1.0 - end_length_m * inverse_length_per_m;
+    if share < 0.0 {
+        0.0
+    } else {
+        share
     }
 }
 
@@ -499,6 +547,16 @@ pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> V
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn section_end_factor_shortens_the_section() {
+        // 20 poles of 50 mm with ℓ = 0.44 τ: 2.2 % less than a long section (the issue's
+        // figure for 20–30-pole modules); ℓ < 0 brakes more; never negative; NaN propagates.
+        assert!((section_end_factor(0.022, 1.0) - 0.978).abs() < 1e-12);
+        assert!(section_end_factor(-0.01, 1.0) > 1.0);
+        assert_eq!(section_end_factor(0.3, 1.0 / 0.2), 0.0);
+        assert!(section_end_factor(f64::NAN, 1.0).is_nan());
+    }
 
     #[test]
     fn remanence_ratio_linear() {

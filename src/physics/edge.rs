@@ -95,20 +95,25 @@
 //!
 //! The fundamental uses 2 lamina pairs and M = clamp(⌈2.5 k b⌉ + 4, 8, 32) modes, harmonic 3
 //! (about 1.6 % of the force) 2 pairs and at most 24 modes, higher harmonics (< 0.1 % together)
-//! 1 pair and at most 16 modes. The q-integral
+//! 1 pair and at most 8 modes (their factor to ~2 %, i.e. < 2e-5 of the force). The q-integral
 //! runs on Gauss–Legendre panels (8 nodes per period π/b of cos²(qb)) up to Q = max(1.5 p_M,
 //! 40/b), plus the tail beyond Q with cos² replaced by its mean ½ (doubling the node density or
 //! Q changes the factor by < 1e-4 from 0.1 to 20 × the critical speed). The eigen-decomposition
 //! is done once when the model is built; an evaluation is a sum of at most 64 + 2 Lorentzians for
-//! the fundamental, 48 + 2 for harmonic 3 and 16 + 1 for each higher one, plus one remainder term
+//! the fundamental, 48 + 2 for harmonic 3 and 8 + 1 for each higher one, plus one remainder term
 //! each (terms that never reach 1e-9 of the sum are dropped into the remainder).
 
 use super::eigen::symmetric_eigen_projections;
+use super::field::gap_centre_amplitude_t;
 use super::quadrature::gauss_legendre;
 use super::{BrakeGeometry, PhysicsError};
 use crate::constants::MU0_H_M;
 use serde::{Deserialize, Serialize};
 use std::f64::consts::PI;
+
+/// A Lorentzian term is dropped (into the remainder) when it stays below this fraction of its
+/// sum at every σv.
+const PRUNE: f64 = 1e-9;
 
 /// Russell–Norsworthy edge factor K (dimensionless, in [0, 1)) for wavenumber `k_per_m` (1/m),
 /// half active height `half_active_height_m` (m) and overhang `overhang_m` (m, beyond the poles on
@@ -141,6 +146,20 @@ pub enum EdgeModel {
     RussellNorsworthyConductivity,
 }
 
+/// The pole field across the height that drives the eddy currents.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum PoleField {
+    /// B_0·cosh(ky) for |z| < a_p and 0 beyond (no fringing; the field of the layer theory cut off
+    /// at the pole edges — Russell & Norsworthy's assumption, used by the drag model).
+    #[default]
+    Uniform,
+    /// The field of magnets of height 2a_p on unbounded iron planes: each height wavenumber q of
+    /// the magnetisation's step profile carries the layer no-load transfer at κ² = k² + q²,
+    /// B_y(y, q) ∝ sinh(κh_m)/sinh(κa)·cosh(κy), so the field fringes past the pole edges over
+    /// about the gap a − h_m (used for the uncertainty of the uniform model).
+    Fringing,
+}
+
 /// Resolution of the Galerkin solution: cosine modes across the height and lamina pairs across
 /// the thickness (0 pairs = one thin sheet at the mid-plane).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -169,7 +188,7 @@ impl EdgeResolution {
             }
         } else {
             EdgeResolution {
-                modes: raw.clamp(8.0, 16.0) as usize,
+                modes: raw.clamp(4.0, 8.0) as usize,
                 lamina_pairs: 1,
             }
         }
@@ -270,6 +289,16 @@ impl FiniteHeightEdge {
         order: u32,
         resolution: EdgeResolution,
     ) -> Result<Self, PhysicsError> {
+        Self::with_pole_field(geometry, order, resolution, PoleField::Uniform)
+    }
+
+    /// The factor with a chosen model of the pole field across the height (see [`PoleField`]).
+    pub fn with_pole_field(
+        geometry: &BrakeGeometry,
+        order: u32,
+        resolution: EdgeResolution,
+        pole_field: PoleField,
+    ) -> Result<Self, PhysicsError> {
         geometry.validate()?;
         let degenerate = PhysicsError::Degenerate {
             what: "the finite-height edge factor",
@@ -280,7 +309,7 @@ impl FiniteHeightEdge {
         let ap = 0.5 * geometry.active_height_m();
         let b = fin_half_height_m(geometry);
         let d = geometry.fin_thickness_m;
-        let low_speed_factor = russell_norsworthy(k, ap, geometry.overhang_m());
+        let mut low_speed_factor = russell_norsworthy(k, ap, geometry.overhang_m());
         let single = resolution.lamina_pairs == 0;
         let (ys, w) = laminae(geometry.half_fin_thickness_m(), resolution.lamina_pairs);
         let nl = ys.len();
@@ -296,6 +325,8 @@ impl FiniteHeightEdge {
         let panels = (q_max / width).ceil() as usize;
         let q_max = panels as f64 * width;
         let gauss8 = gauss_legendre(8);
+        let h_m = geometry.magnet_thickness_m;
+        let mut fringed = vec![0.0; n];
         let mut phi = vec![0.0; m_count];
         let mut kern = vec![0.0; nl * nl];
         let mut accumulate = |q: f64, weight: f64, phi: &[f64], r: &mut [f64]| {
@@ -326,7 +357,21 @@ impl FiniteHeightEdge {
                 for (f, &pm) in phi.iter_mut().zip(&p) {
                     *f = 2.0 * pm * b * sinc((q - pm) * b) / (pm + q);
                 }
-                accumulate(q, 0.5 * width * wg / PI, &phi, &mut r);
+                let weight = 0.5 * width * wg / PI;
+                accumulate(q, weight, &phi, &mut r);
+                if pole_field == PoleField::Fringing {
+                    // s_lm = (1/π)∫ φ̂_m(q) B̂_s(q) dq with B̂_s = box̂(q)·S(κ)cosh(κ y_l)/S(k).
+                    let kappa = q.hypot(k);
+                    let spread =
+                        2.0 * ap * sinc(q * ap) * gap_centre_amplitude_t(1.0, kappa, h_m, a)
+                            / gap_centre_amplitude_t(1.0, k, h_m, a);
+                    for (l, &yl) in ys.iter().enumerate() {
+                        let across = weight * spread * (kappa * yl).cosh();
+                        for (m, f) in phi.iter().enumerate() {
+                            fringed[l * m_count + m] += across * f;
+                        }
+                    }
+                }
             }
         }
         // Tail: φ̂_m φ̂_n → (−1)^{m+n} 4 p_m p_n cos²(qb)/((q² − p_m²)(q² − p_n²)) with cos² → ½;
@@ -361,7 +406,11 @@ impl FiniteHeightEdge {
         let mut y: Vec<f64> = (0..n)
             .map(|i| {
                 let (l, m) = (i / m_count, i % m_count);
-                inv_sqrt_d[i] * (k * ys[l]).cosh() * 2.0 * (p[m] * ap).sin() / p[m]
+                let source = match pole_field {
+                    PoleField::Uniform => (k * ys[l]).cosh() * 2.0 * (p[m] * ap).sin() / p[m],
+                    PoleField::Fringing => fringed[i],
+                };
+                inv_sqrt_d[i] * source
             })
             .collect();
         let finite = symmetric_eigen_projections(&mut r, &mut y, n).ok_or(degenerate.clone())?;
@@ -410,11 +459,15 @@ impl FiniteHeightEdge {
         numerator.retain(|t| {
             scan.iter()
                 .zip(&totals)
-                .any(|(&s2, &tot)| t[0] / (1.0 + t[1] * s2) >= 1e-9 * tot)
+                .any(|(&s2, &tot)| t[0] / (1.0 + t[1] * s2) >= PRUNE * tot)
         });
         // Remainder K − Σ w_i: the modes beyond M, given the rate of the first of them in the
         // diagonal estimate r(κ) ≈ R_max·(k/κ)·coth(κa)/coth(ka), κ² = p_{M+1}² + k² (the rate of
         // a tall fin scaled by the reaction over the resistance of one cosine mode).
+        // With the fringing field the static limit has no closed form: F(0) is the Galerkin sum.
+        if pole_field == PoleField::Fringing {
+            low_speed_factor = numerator.iter().map(|t| t[0]).sum();
+        }
         let kept: f64 = numerator.iter().map(|t| t[0]).sum();
         let remainder = low_speed_factor - kept;
         let r_max = denominator.iter().map(|t| t[1]).fold(0.0, f64::max).sqrt();
@@ -443,7 +496,8 @@ impl FiniteHeightEdge {
         lorentzian_sum(&self.numerator, s2) / lorentzian_sum(&self.denominator, s2)
     }
 
-    /// F(0) = the Russell–Norsworthy factor K of this harmonic.
+    /// F(0): the Russell–Norsworthy factor K of this harmonic (with [`PoleField::Fringing`], the
+    /// static limit of the fringing field).
     pub fn low_speed_factor(&self) -> f64 {
         self.low_speed_factor
     }

@@ -20,6 +20,14 @@
 //! turns the model into a fast interpolant for the equations of motion, and [`measured`]
 //! interpolates a measured force curve that replaces the model for a section.
 //!
+//! The force per metre of overlap is that of a long section and a long fin. [`ends`] gives the
+//! end lengths of a section (entry and exit; F = f·(N τ − ℓ_entry − ℓ_exit)) and [`fin_ends`]
+//! those of a fin end inside a section (leading and trailing), both functions of σ·v only;
+//! [`SectionEndCurve`] is the fast ℓ(v) the equations of motion apply (`dynamics::model`), the
+//! fin ends are carried as an allowance in the band. [`uncertainty`] gives the model's relative
+//! band (fringing of the pole field, thickness at the fin rim, numerics, recoil permeability,
+//! section-end residual, fin ends).
+//!
 //! Units are SI throughout: metres, tesla, siemens per metre, metres per second, pascal (N/m²).
 
 mod chebyshev;
@@ -32,13 +40,15 @@ pub mod layer;
 pub mod measured;
 mod quadrature;
 pub mod table;
+pub mod uncertainty;
 
-pub use edge::{russell_norsworthy, EdgeModel, EdgeResolution, FiniteHeightEdge};
-pub use ends::{section_end_lengths, EndLengths, EndTable};
+pub use edge::{russell_norsworthy, EdgeModel, EdgeResolution, FiniteHeightEdge, PoleField};
+pub use ends::{section_end_length_m, section_end_lengths, EndLengths, EndTable, SectionEndCurve};
 pub use fin_ends::{fin_end_lengths, FinEndLengths, FinEndTable};
 pub use layer::{skin_depth_m, DragModel, HarmonicTerm};
 pub use measured::MeasuredCurve;
 pub use table::ForceTable;
+pub use uncertainty::{recoil_loss, ModelUncertainty, UncertaintyBand, UncertaintyParts};
 
 use serde::{Deserialize, Serialize};
 

@@ -7,7 +7,7 @@ use super::json_out::RunJson;
 use super::plots::{render_png, render_svg};
 use super::{csv_out, OutputError, OutputFile};
 use crate::checks::Verdict;
-use crate::curve::CurveOptions;
+use crate::curve::PairCurve;
 use crate::study::{Judgement, Study};
 use crate::thermal::CaseHeat;
 use serde::Serialize;
@@ -50,20 +50,16 @@ pub struct ReportBundle {
     pub profiles: usize,
 }
 
-/// Builds every file of the report of a judged study (runs with full sampling).
+/// Builds every file of the report of a judged study (runs with full sampling) with its force
+/// curves ([`Study::default_curves`]).
 pub fn report_bundle(
     study: &Study,
     judged: &Judgement,
+    curves: &[PairCurve],
     source: &ReportSource<'_>,
 ) -> Result<ReportBundle, OutputError> {
     let s = study.scenario();
-    let curves = study.curves(&CurveOptions {
-        section: None,
-        speeds_m_s: study.default_speeds(),
-        fin_temp_c: None,
-        magnet_temp_c: None,
-    });
-    let figs = all_figures(s, &judged.runs, &curves, &judged.heat);
+    let figs = all_figures(s, &judged.runs, curves, &judged.heat);
     let mut files = Vec::with_capacity(2 * figs.len() + judged.runs.len() + 2);
     let mut rendered = Vec::with_capacity(figs.len());
     for f in &figs {

@@ -8,7 +8,7 @@ use crate::scenario::Rider;
 use crate::thermal::{CaseHeat, TrackProfile};
 
 /// The curve CSV header.
-pub const CURVE_HEADER: [&str; 7] = [
+pub const CURVE_HEADER: [&str; 12] = [
     "section",
     "fin",
     "speed_m_s",
@@ -16,6 +16,11 @@ pub const CURVE_HEADER: [&str; 7] = [
     "force_per_area_fundamental_pa",
     "force_per_m_n",
     "force_full_overlap_n",
+    "section_end_length_m",
+    "band_low_fraction",
+    "band_high_fraction",
+    "force_full_overlap_low_n",
+    "force_full_overlap_high_n",
 ];
 
 /// The run profile CSV header.
@@ -49,6 +54,11 @@ pub fn curves_csv(curves: &[PairCurve]) -> Result<Vec<u8>, csv::Error> {
                 opt(p.force_per_area_fundamental_pa),
                 format!("{}", p.force_per_m_n),
                 format!("{}", p.force_full_overlap_n),
+                opt(p.section_end_length_m),
+                opt(p.band_low_fraction),
+                opt(p.band_high_fraction),
+                opt(p.force_full_overlap_low_n),
+                opt(p.force_full_overlap_high_n),
             ])?;
         }
     }

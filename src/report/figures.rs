@@ -5,7 +5,7 @@
 
 use crate::checks::envelope::{sustained_curve, sustained_curve_below};
 use crate::checks::rider::rider_signals;
-use crate::curve::PairCurve;
+use crate::curve::{CurvePoint, PairCurve};
 use crate::dynamics::RunResult;
 use crate::report::plots::{Band, Chart, RefLine, Series};
 use crate::scenario::validate::track_span;
@@ -248,8 +248,8 @@ pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
 }
 
 /// Figure 4 (one per distinct section × fin design): force per area (kPa) against speed (m/s),
-/// harmonic sum solid and fundamental dashed, critical speed marked and the speeds the runs met
-/// in the zone shaded. Measured force curves have no per-area form and give no figure.
+/// harmonic sum solid and fundamental dashed, the model's uncertainty band dashed around the sum,
+/// critical speed marked and the speeds the runs met in the zone shaded. Measured force curves have no per-area form and give no figure.
 pub fn force_speed(curves: &[PairCurve], runs: &[RunResult]) -> Vec<(String, Chart)> {
     let mut seen: Vec<(String, String)> = Vec::new();
     let (mut vlo, mut vhi) = (f64::INFINITY, f64::NEG_INFINITY);
@@ -297,6 +297,24 @@ pub fn force_speed(curves: &[PairCurve], runs: &[RunResult]) -> Vec<(String, Cha
                 color: 1,
                 dashed: true,
             });
+        }
+        // The model's uncertainty band around the harmonic sum (per area, without the ends).
+        let low: fn(&CurvePoint) -> Option<f64> = |p| p.band_low_fraction;
+        let high: fn(&CurvePoint) -> Option<f64> = |p| p.band_high_fraction;
+        for (name, edge) in [("model band, low", low), ("model band, high", high)] {
+            let points: Vec<(f64, f64)> = c
+                .points
+                .iter()
+                .filter_map(|p| Some((p.speed_m_s, p.force_per_area_pa? * (1.0 + edge(p)?) / 1e3)))
+                .collect();
+            if !points.is_empty() {
+                series.push(Series {
+                    name: name.into(),
+                    points,
+                    color: 2,
+                    dashed: true,
+                });
+            }
         }
         let x_bands = if vlo.is_finite() && vhi.is_finite() {
             vec![Band {

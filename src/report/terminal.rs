@@ -568,7 +568,10 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
             "force_per_area_pa",
             "fundamental_pa",
             "force_per_m_n",
+            "section_end_mm",
             "force_full_overlap_n",
+            "force_low_n",
+            "force_high_n",
         ]);
         let stride = (p.points.len() / 25).max(1);
         for q in p.points.iter().step_by(stride) {
@@ -577,10 +580,25 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
                 num(q.force_per_area_pa, 1),
                 num(q.force_per_area_fundamental_pa, 1),
                 num(Some(q.force_per_m_n), 1),
+                num(q.section_end_length_m.map(|l| l * 1e3), 1),
                 num(Some(q.force_full_overlap_n), 1),
+                num(q.force_full_overlap_low_n, 1),
+                num(q.force_full_overlap_high_n, 1),
             ]);
         }
         out.push_str(&t.render());
+    }
+    if curves
+        .iter()
+        .any(|c| c.points.iter().any(|q| q.band_low_fraction.is_some()))
+    {
+        outln!(
+            out,
+            "\nforce_full_overlap_n: the fully overlapped section as the runs use it (per metre × \
+             length × (1 − section_end/L)); force_low_n … force_high_n: the model's uncertainty \
+             band (fringing across the height, fin thickness at the rim, magnet recoil \
+             permeability, numerics, section and fin ends; README \"Force model\")."
+        );
     }
     out
 }

@@ -7,9 +7,9 @@ pub mod bounds;
 pub mod cases;
 pub mod defaults;
 pub mod raw;
-pub mod sweep;
 pub mod schema;
 pub mod starters;
+pub mod sweep;
 pub mod validate;
 pub mod write;
 

@@ -451,8 +451,19 @@ impl Study {
     }
 
     /// Force–speed curves of the section × fin pairs.
-    pub fn curves(&self, options: &CurveOptions) -> Vec<PairCurve> {
-        curves(&self.scenario, &self.tables, options)
+    pub fn curves(&self, options: &CurveOptions) -> Result<Vec<PairCurve>, StudyError> {
+        Ok(curves(&self.scenario, &self.tables, options)?)
+    }
+
+    /// The curves of every pair on the default speed grid at the first case's temperatures (the
+    /// report's).
+    pub fn default_curves(&self) -> Result<Vec<PairCurve>, StudyError> {
+        self.curves(&CurveOptions {
+            section: None,
+            speeds_m_s: self.default_speeds(),
+            fin_temp_c: None,
+            magnet_temp_c: None,
+        })
     }
 
     /// The default speed grid of [`Study::curves`].
