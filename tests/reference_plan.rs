@@ -33,7 +33,7 @@ fn small_coaster() -> Scenario {
     s
 }
 
-/// The sled demo arriving at `speed_m_s`, 5 slots, 2 mm and 4 mm settings. At 20 and 30 m/s
+/// The sled demo arriving at `speed_m_s`, 5 slots, 2 mm and 4 mm settings. At 24 and 28 m/s
 /// the shortest layouts need a gap (found by the enumeration below, and asserted there).
 fn small_sled(speed_m_s: f64) -> Scenario {
     let mut s = load("scenarios/sled-arrester-plan.yaml");
@@ -130,7 +130,10 @@ fn planner_equals_exhaustive_search_on_a_small_coaster() {
 
 #[test]
 fn planner_equals_exhaustive_search_where_the_optimum_has_a_gap() {
-    for speed in [20.0, 30.0] {
+    // Entry speeds at which the small invented sled's optimum (found by the enumeration) has an
+    // interior gap under the current force model (with section ends and the finite-height edge
+    // factor); the test asserts that it does, so a model change that removes the gap shows here.
+    for speed in [24.0, 28.0] {
         optimum_with_a_gap(&small_sled(speed));
     }
 }

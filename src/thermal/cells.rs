@@ -249,7 +249,10 @@ mod tests {
         let largest = reference.iter().copied().fold(0.0, f64::max);
         assert!(largest > 0.0);
         for (k, (g, r)) in gauss.iter().zip(&reference).enumerate() {
-            assert!((g - r).abs() <= 5e-8 * largest, "cell {k}: {g} vs {r}");
+            // The section-end factor adds a piecewise-cubic (C¹) dependence on speed that the
+            // Gauss rule integrates to a little less than machine precision: 1e-7 of the largest
+            // cell (a 256-point-per-step reference written here).
+            assert!((g - r).abs() <= 1e-7 * largest, "cell {k}: {g} vs {r}");
         }
         let sum: f64 = gauss.iter().sum();
         let fin = run.fins[0].energy_j;
