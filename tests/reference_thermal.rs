@@ -22,7 +22,8 @@ fn rel(a: f64, b: f64) -> f64 {
 
 /// First law for lumped bodies (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer,
 /// 2007, §1.3 and §5.2): with no cooling during the pass, Σ m·c_p·ΔT over the vehicle fins equals
-/// the braking energy ∫ |F_brake·v| dt. Tolerance 1e-6 relative (integrator tolerance 1e-10).
+/// the braking energy ∫ |F_brake·v| dt, with ΔT the mean over the fin's height. Tolerance 1e-6
+/// relative (integrator tolerance 1e-10).
 #[test]
 fn vehicle_fins_take_up_the_braking_energy() {
     let mut s = shipped("coaster-brake-run.yaml");
@@ -39,7 +40,12 @@ fn vehicle_fins_take_up_the_braking_energy() {
             .map(|(f, r)| {
                 assert!(matches!(f.mount, Mount::Vehicle { .. }));
                 let m_kg = f.material.density_kg_m3 * f.length_m * f.height_m * f.thickness_m;
-                m_kg * f.material.specific_heat_j_kg_k * (r.peak_temperature_c - case.fin_temp_c)
+                let rise = r.mean_temperature_c - case.fin_temp_c;
+                // The band the magnets cover runs hotter than the mean (resolved across the
+                // height), at most by fin height / band height (no conduction at all).
+                let peak_rise = r.peak_temperature_c - case.fin_temp_c;
+                assert!(peak_rise > 1.02 * rise && peak_rise <= rise * 180.0 / 150.0 + 1e-9);
+                m_kg * f.material.specific_heat_j_kg_k * rise
             })
             .sum();
         assert!(
@@ -100,8 +106,8 @@ fn track_fin_rise_integrates_to_the_braking_energy() {
 /// with τ = m·c_p/(h·A) = ρ·c_p·t/(2h) between passes, peaks at T_amb + (T0 − T_amb)·r^(n−1) +
 /// ΔT·(1 − rⁿ)/(1 − r), r = e^(−Δt/τ) (geometric series of lumped-capacitance cooling, Incropera
 /// & DeWitt, Fundamentals of Heat and Mass Transfer, 2007, eq. 5.6). With the force coupling off
-/// every pass deposits the same heat; after 60 cycles rⁿ < 1e-20, so the last peak must equal the
-/// closed-form steady peak to 1e-9 K (rounding of 60 cooling steps). With `until_steady` the stop
+/// every pass deposits the same heat; after 60 cycles rⁿ < 1e-20, so the last mean over the fin's
+/// height must equal the closed-form steady value to 1e-9 K (rounding of 60 cooling steps). With `until_steady` the stop
 /// rule (change < 0.1 K) leaves the peak within 0.1·r/(1 − r) K of the steady value.
 #[test]
 fn duty_loop_matches_the_geometric_series() {
@@ -126,20 +132,29 @@ fn duty_loop_matches_the_geometric_series() {
         let m = &fin.material;
         let tau = m.density_kg_m3 * m.specific_heat_j_kg_k * fin.thickness_m / (2.0 * h_w);
         let ratio = (-interval_s / tau).exp();
-        let steady = amb + r.rise_per_pass_k / (1.0 - ratio);
+        // The mean over the height is the lumped body (uniform film coefficient on both faces).
+        let capacity = m.density_kg_m3
+            * m.specific_heat_j_kg_k
+            * fin.length_m
+            * fin.height_m
+            * fin.thickness_m;
+        let rise = r.energy_per_pass_j / capacity;
+        let steady = amb + rise / (1.0 - ratio);
         assert!(
-            (r.steady_peak_temperature_c - steady).abs() < 1e-9,
+            (r.steady_mean_temperature_c - steady).abs() < 1e-9,
             "{}: {} vs {steady}",
             fin.name,
-            r.steady_peak_temperature_c
+            r.steady_mean_temperature_c
         );
         // Cycle 3 from the closed form with T0 = case fin temperature.
         let n = 3;
         let t3 = amb
             + (case.fin_temp_c - amb) * ratio.powi(n - 1)
-            + r.rise_per_pass_k * (1.0 - ratio.powi(n)) / (1.0 - ratio);
+            + rise * (1.0 - ratio.powi(n)) / (1.0 - ratio);
         let i = s.fins.iter().position(|f| f.name == fin.name).unwrap();
-        assert!((h.cycles[2].fin_peaks_c[i] - t3).abs() < 1e-9);
+        assert!((h.cycles[2].fin_means_c[i] - t3).abs() < 1e-9);
+        // The hottest cell stays above the mean by about the single-pass excess.
+        assert!(r.steady_peak_temperature_c > r.steady_mean_temperature_c);
     }
     // Until steady: stopped by the 0.1 K rule, within its bound of the steady value.
     s.duty = Some(Duty {

@@ -8,6 +8,7 @@
 
 mod cells;
 pub mod duty;
+pub mod height;
 pub mod pass;
 
 pub use duty::{cool_c, steady_peak_c, time_constant_s, STEADY_TOLERANCE_K};
@@ -66,8 +67,11 @@ pub struct CycleRow {
     pub braking_energy_j: f64,
     /// Highest fin temperature right after the pass, over all fins, °C.
     pub peak_fin_temperature_c: f64,
-    /// Highest temperature right after the pass per fin (scenario order), °C.
+    /// Highest temperature during the pass per fin (scenario order; vehicle fins: the hottest
+    /// cell across the height), °C.
     pub fin_peaks_c: Vec<f64>,
+    /// Mean (lumped) temperature right after the pass per fin, °C.
+    pub fin_means_c: Vec<f64>,
 }
 
 /// Heat result of one fin.
@@ -81,14 +85,19 @@ pub struct FinHeatResult {
     pub energy_per_pass_j: f64,
     /// Largest rise of the first pass, K.
     pub rise_per_pass_k: f64,
-    /// Highest temperature after the first pass, °C.
+    /// Highest temperature of the first pass, °C (vehicle fins: the hottest cell across the
+    /// height, which the verdict judges).
     pub peak_temperature_c: f64,
+    /// Mean (lumped) temperature after the first pass, °C.
+    pub mean_temperature_c: f64,
     /// Energy of the last pass, J.
     pub energy_last_pass_j: f64,
     /// Largest rise of the last pass, K.
     pub rise_last_pass_k: f64,
-    /// Highest temperature after the last pass, °C.
+    /// Highest temperature of the last pass, °C.
     pub steady_peak_temperature_c: f64,
+    /// Mean (lumped) temperature after the last pass, °C.
+    pub steady_mean_temperature_c: f64,
     /// Highest temperature before the last dispatch (the steady pre-dispatch state with a duty
     /// block; the case's fin temperature without one), °C.
     pub steady_start_temperature_c: f64,
@@ -240,7 +249,7 @@ pub fn heat_case(
     for cycle in 1..=max_cycles {
         let heat = match (&uncoupled_cache, options.coupling) {
             // Without coupling every pass is the same run; only the bookkeeping differs.
-            (Some(c), false) => rebook(c, &states, scenario),
+            (Some(c), false) => rebook(c, &states, scenario, tables)?,
             _ => {
                 let h = run_pass(
                     scenario,
@@ -256,7 +265,8 @@ pub fn heat_case(
                 h
             }
         };
-        let fin_peaks: Vec<f64> = heat.fins.iter().map(|f| f.end.peak_c()).collect();
+        let fin_peaks: Vec<f64> = heat.fins.iter().map(|f| f.peak_c).collect();
+        let fin_means: Vec<f64> = heat.fins.iter().map(|f| f.end.mean_c()).collect();
         for (c, f) in corrections.iter_mut().zip(&heat.fins) {
             *c = c.max(f.quadrature_correction);
         }
@@ -267,6 +277,7 @@ pub fn heat_case(
             braking_energy_j: heat.run.braking_energy_j,
             peak_fin_temperature_c: max_of(&fin_peaks),
             fin_peaks_c: fin_peaks.clone(),
+            fin_means_c: fin_means,
         };
         if let Some(prev) = cycles.last() {
             for i in 0..n_fins {
@@ -329,10 +340,12 @@ pub fn heat_case(
             mount: mount_name(f.mount),
             energy_per_pass_j: first[i].energy_j,
             rise_per_pass_k: max_of(&first[i].rise_k),
-            peak_temperature_c: first[i].end.peak_c(),
+            peak_temperature_c: first[i].peak_c,
+            mean_temperature_c: first[i].end.mean_c(),
             energy_last_pass_j: last.fins[i].energy_j,
             rise_last_pass_k: max_of(&last.fins[i].rise_k),
-            steady_peak_temperature_c: last.fins[i].end.peak_c(),
+            steady_peak_temperature_c: last.fins[i].peak_c,
+            steady_mean_temperature_c: last.fins[i].end.mean_c(),
             steady_start_temperature_c: last_start[i].peak_c(),
             cycles_to_steady: fin_steady[i],
             time_constant_s: taus[i].filter(|t| t.is_finite()),
@@ -360,7 +373,7 @@ pub fn heat_case(
                     .collect(),
                 rise_k: p.rise_k.clone(),
             }),
-            FinState::Lumped(_) => None,
+            FinState::Height(_) => None,
         })
         .collect();
     for sec in &scenario.sections {
@@ -405,33 +418,42 @@ pub fn heat_case(
     })
 }
 
-/// The same pass with its rises added to new start states (no coupling: the run is unchanged).
-fn rebook(c: &PassHeat, states: &[FinState], _scenario: &Scenario) -> PassHeat {
+/// The same pass with its heat laid onto new start states (no coupling: the run is unchanged).
+fn rebook(
+    c: &PassHeat,
+    states: &[FinState],
+    scenario: &Scenario,
+    tables: &BrakeTables,
+) -> Result<PassHeat, ThermalError> {
     let fins = c
         .fins
         .iter()
         .zip(states)
-        .map(|(f, s)| {
-            let end = match s {
-                FinState::Lumped(t) => {
-                    FinState::Lumped(t + f.rise_k.first().copied().unwrap_or(0.0))
-                }
-                FinState::Field(field) => {
-                    let mut e = field.clone();
-                    e.temps_c
-                        .iter_mut()
-                        .zip(&f.rise_k)
-                        .for_each(|(t, r)| *t += r);
-                    FinState::Field(e)
-                }
-            };
-            pass::FinPass { end, ..f.clone() }
+        .enumerate()
+        .map(|(i, (f, s))| match s {
+            FinState::Height(p) => {
+                let cap = pass::fin_capacity(&scenario.fins[i], i, tables)?;
+                Ok(pass::height_pass(&c.run, p, f.energy_j, &cap))
+            }
+            FinState::Field(field) => {
+                let mut e = field.clone();
+                e.temps_c
+                    .iter_mut()
+                    .zip(&f.rise_k)
+                    .for_each(|(t, r)| *t += r);
+                let peak_c = e.temps_c.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+                Ok(pass::FinPass {
+                    end: FinState::Field(e),
+                    peak_c,
+                    ..f.clone()
+                })
+            }
         })
-        .collect();
-    PassHeat {
+        .collect::<Result<_, ThermalError>>()?;
+    Ok(PassHeat {
         run: c.run.clone(),
         fins,
-    }
+    })
 }
 
 /// Run options that start a case from the given fin states: each vehicle fin at its lumped
@@ -442,7 +464,7 @@ pub fn start_from_states(states: &[FinState], case: &Case, base: RunOptions) -> 
             states
                 .iter()
                 .map(|s| match s {
-                    FinState::Lumped(t) => *t,
+                    FinState::Height(p) => p.mean_c(),
                     FinState::Field(_) => case.fin_temp_c,
                 })
                 .collect(),
@@ -451,7 +473,7 @@ pub fn start_from_states(states: &[FinState], case: &Case, base: RunOptions) -> 
             states
                 .iter()
                 .map(|s| match s {
-                    FinState::Lumped(_) => None,
+                    FinState::Height(_) => None,
                     FinState::Field(f) => Some(f.clone()),
                 })
                 .collect(),

@@ -21,6 +21,7 @@
 //! heat has no time to spread across the fin during a pass).
 
 use super::cells::cell_energies;
+use super::height::{band_weights, diffusivity_m2_s, HeightProfile, Modes, HEIGHT_CELLS};
 use super::ThermalError;
 use crate::dynamics::integrate::TempField;
 use crate::dynamics::model::{active_pairs, ActivePair, PairLaw};
@@ -34,8 +35,8 @@ pub const DEFAULT_CELL_M: f64 = crate::scenario::defaults::HEAT_CELL_M;
 /// The thermal state of a fin between passes.
 #[derive(Debug, Clone, PartialEq)]
 pub enum FinState {
-    /// A vehicle fin: one lumped temperature, °C.
-    Lumped(f64),
+    /// A vehicle fin: its temperatures across the height (the force law reads their mean).
+    Height(HeightProfile),
     /// A track fin: a temperature per cell.
     Field(TempField),
 }
@@ -44,8 +45,16 @@ impl FinState {
     /// Highest temperature of the fin, °C.
     pub fn peak_c(&self) -> f64 {
         match self {
-            FinState::Lumped(t) => *t,
+            FinState::Height(p) => p.peak_c(),
             FinState::Field(f) => f.temps_c.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+        }
+    }
+
+    /// Mean temperature of the fin (the lumped value; for track fins the mean of the cells), °C.
+    pub fn mean_c(&self) -> f64 {
+        match self {
+            FinState::Height(p) => p.mean_c(),
+            FinState::Field(f) => f.temps_c.iter().sum::<f64>() / f.temps_c.len().max(1) as f64,
         }
     }
 }
@@ -103,7 +112,12 @@ pub fn uniform_states(scenario: &Scenario, temp_c: f64, cell_m: f64) -> Vec<FinS
         .fins
         .iter()
         .map(|f| match f.mount {
-            Mount::Vehicle { .. } => FinState::Lumped(temp_c),
+            Mount::Vehicle { .. } => FinState::Height(HeightProfile::uniform(
+                f.height_m,
+                diffusivity_m2_s(&f.material),
+                HEIGHT_CELLS,
+                temp_c,
+            )),
             Mount::Track { start_m } => {
                 let n = ((f.length_m / cell_m).ceil() as usize).max(1);
                 FinState::Field(TempField {
@@ -123,8 +137,10 @@ pub struct FinPass {
     pub energy_j: f64,
     /// State after the pass.
     pub end: FinState,
-    /// Rise of each cell (track fins) or the single rise (vehicle fins), K.
+    /// Rise of each cell (track fins) or of the hottest cell over the pass (vehicle fins), K.
     pub rise_k: Vec<f64>,
+    /// Hottest temperature during the pass, °C (for track fins the end state's peak).
+    pub peak_c: f64,
     /// Relative size of the trapezoid-rule correction of the cell energies (0 for vehicle fins).
     pub quadrature_correction: f64,
 }
@@ -172,7 +188,7 @@ pub fn run_pass(
         .map(|(i, state)| {
             let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
             match state {
-                FinState::Lumped(t0) => lumped_pass(*t0, energy_j, &caps[i]),
+                FinState::Height(p0) => height_pass(&run, p0, energy_j, &caps[i]),
                 FinState::Field(field) => {
                     let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
                     let track = TrackFin {
@@ -211,13 +227,58 @@ fn pass_options(case: &Case, states: &[FinState], coupling: bool, sample_dt_s: f
     }
 }
 
-/// A vehicle fin: one lumped rise.
-fn lumped_pass(t0: f64, energy_j: f64, cap: &FinCapacity) -> FinPass {
-    let rise = energy_j / cap.whole_j_k;
+/// A vehicle fin: the fin energy deposited in the band the magnets cover (the heated height of
+/// `cap` from the free edge), in time as the vehicle's braking power |F·v| at the samples (trapezoid per
+/// interval, scaled to the fin's integrated energy), with conduction across the height during
+/// the pass. The peak is the hottest cell at any sample.
+pub fn height_pass(
+    run: &RunResult,
+    start: &HeightProfile,
+    energy_j: f64,
+    cap: &FinCapacity,
+) -> FinPass {
+    let modes = Modes::new(start.temps_c.len());
+    let mut p = start.clone();
+    let weights = band_weights(&p, cap.heated_height_m, &|_| 1.0);
+    // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
+    let n = p.temps_c.len() as f64;
+    let mut peak = p.peak_c();
+    let powers: Vec<(f64, f64)> = run
+        .samples
+        .iter()
+        .map(|s| (s.t_s, (s.brake_force_n * s.v_m_s).abs()))
+        .collect();
+    let pieces: Vec<(f64, f64)> = powers
+        .windows(2)
+        .map(|w| (w[1].0 - w[0].0, 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)))
+        .collect();
+    let total: f64 = pieces.iter().map(|x| x.1).sum();
+    let mean_rise_k = energy_j / cap.whole_j_k;
+    let deposit = |p: &mut HeightProfile, fraction: f64, dt: f64| {
+        let q: Vec<f64> = weights
+            .iter()
+            .map(|w| w * n * mean_rise_k * fraction / dt.max(1e-300))
+            .collect();
+        modes.step(p, Some(&q), dt, f64::INFINITY, 0.0);
+    };
+    if total > 0.0 && total.is_finite() {
+        for (dt, e) in pieces {
+            if dt > 0.0 {
+                deposit(&mut p, e / total, dt);
+            }
+            peak = peak.max(p.peak_c());
+        }
+    } else if energy_j > 0.0 {
+        for (t, w) in p.temps_c.iter_mut().zip(&weights) {
+            *t += w * n * mean_rise_k;
+        }
+        peak = peak.max(p.peak_c());
+    }
     FinPass {
         energy_j,
-        end: FinState::Lumped(t0 + rise),
-        rise_k: vec![rise],
+        rise_k: vec![peak - start.peak_c()],
+        peak_c: peak,
+        end: FinState::Height(p),
         quadrature_correction: 0.0,
     }
 }
@@ -272,8 +333,14 @@ fn field_pass(
             .collect(),
         ..field.clone()
     };
+    let peak_c = end
+        .temps_c
+        .iter()
+        .copied()
+        .fold(f64::NEG_INFINITY, f64::max);
     FinPass {
         energy_j,
+        peak_c,
         end: FinState::Field(end),
         rise_k,
         quadrature_correction: correction,
