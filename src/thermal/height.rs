@@ -1,6 +1,6 @@
 //! Temperature across the height of a vehicle fin.
 //!
-//! The magnets cover only a band of a vehicle fin (the active height from its free edge), and a
+//! The magnets cover only a band of a vehicle fin (the active height), and a
 //! pass of a second or two leaves little time for the heat to spread, so one lumped temperature
 //! averages the peak away. The fin is cut into [`HEIGHT_CELLS`] equal cells across its height;
 //! heat flows between them by conduction (1-D, along the height; the thickness is thin and
@@ -39,7 +39,7 @@ pub fn diffusivity_m2_s(material: &crate::materials::Material) -> f64 {
     k / (material.density_kg_m3 * material.specific_heat_j_kg_k)
 }
 
-/// Temperatures across the height of a vehicle fin, cell 0 at the free edge the magnets cover.
+/// Temperatures across the height of a vehicle fin, cell 0 at one edge.
 #[derive(Debug, Clone, PartialEq)]
 pub struct HeightProfile {
     /// Fin height, m.
@@ -163,34 +163,22 @@ impl Modes {
     }
 }
 
-/// Shares of a deposit across the cells of a profile for a heated band [0, band_m) from the free
-/// edge, with the loss density `density(z/band)` over the band (weights sum to 1).
-pub fn band_weights(
-    profile: &HeightProfile,
-    band_m: f64,
-    density: &dyn Fn(f64) -> f64,
-) -> Vec<f64> {
+/// Shares of a deposit across the cells of a profile for a loss density `density(z)` (any
+/// scale, z from cell 0's edge; weights sum to 1; even when the density is nowhere positive).
+pub fn height_weights(profile: &HeightProfile, density: &dyn Fn(f64) -> f64) -> Vec<f64> {
     let n = profile.temps_c.len();
     let dz = profile.cell_m();
-    let band = band_m.clamp(dz.min(profile.height_m), profile.height_m);
     // Midpoint rule on 16 sub-cells per cell.
     const SUB: usize = 16;
     let raw: Vec<f64> = (0..n)
         .map(|j| {
             (0..SUB)
-                .map(|i| {
-                    let z = (j as f64 + (i as f64 + 0.5) / SUB as f64) * dz;
-                    if z < band {
-                        density(z / band).max(0.0)
-                    } else {
-                        0.0
-                    }
-                })
+                .map(|i| density((j as f64 + (i as f64 + 0.5) / SUB as f64) * dz).max(0.0))
                 .sum::<f64>()
         })
         .collect();
     let total: f64 = raw.iter().sum();
-    if total > 0.0 {
+    if total > 0.0 && total.is_finite() {
         raw.iter().map(|w| w / total).collect()
     } else {
         vec![1.0 / n as f64; n]
@@ -257,7 +245,7 @@ mod tests {
     ) -> (HeightProfile, f64) {
         let modes = Modes::new(HEIGHT_CELLS);
         let mut p = HeightProfile::uniform(h, alpha, HEIGHT_CELLS, 0.0);
-        let w = band_weights(&p, band_m, &|_| 1.0);
+        let w = height_weights(&p, &|z| if z < band_m { 1.0 } else { 0.0 });
         let q: Vec<f64> = w
             .iter()
             .map(|w| w * rise_rate_k_s * HEIGHT_CELLS as f64)

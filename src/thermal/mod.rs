@@ -10,6 +10,7 @@ mod cells;
 pub mod duty;
 pub mod height;
 pub mod pass;
+pub mod sheet;
 
 pub use duty::{cool_c, steady_peak_c, time_constant_s, STEADY_TOLERANCE_K};
 pub use pass::{run_pass, FinState, PassHeat, DEFAULT_CELL_M};
@@ -106,7 +107,8 @@ pub struct FinHeatResult {
     pub cycles_to_steady: Option<u32>,
     /// Cooling time constant ρ·c_p·t/(2h), s (None without a duty block or with h = 0).
     pub time_constant_s: Option<f64>,
-    /// Heated height of a track fin (active height), m (None for vehicle fins).
+    /// Heated height of a track fin: the height whose uniform rise equals the peak rise of the
+    /// thin-sheet loss distribution (active height / peak-to-mean ratio), m (None for vehicle fins).
     pub heated_height_m: Option<f64>,
     /// Largest relative correction of the cell quadrature over all passes (track fins).
     pub quadrature_correction: f64,

@@ -1,9 +1,9 @@
 //! Heat of one pass: the energy each fin takes up, and for fins along the track where along the
 //! fin it is deposited.
 //!
-//! Vehicle fins are lumped: the dynamics integrates each fin's dissipated energy E with the
-//! motion (state index 4 + fin) and its temperature T = T0 + E/(m·c_p) feeds back into σ(T)
-//! during the pass; the rise is ΔT = E/(m·c_p) with m the whole fin (first law for a body of
+//! For vehicle fins the dynamics integrates each fin's dissipated energy E with the motion
+//! (state index 4 + fin) and its mean temperature T = T0 + E/(m·c_p) feeds back into σ(T)
+//! during the pass, with m the whole fin (first law for a body of
 //! uniform temperature, Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, 2007, §5.2).
 //!
 //! Track fins are split into cells of `cell_m` (default 5 cm) from the fin's upstream end. A
@@ -17,11 +17,19 @@
 //! integrator carries only by the quadrature error (reported as `quadrature_correction`,
 //! typically 1e-9 or less); the cell energies are then scaled by the fin's integrated energy
 //! over their sum so that they add up to it exactly. The rise of a cell is
-//! ΔT_k = E_k/(ρ·c_p·t·h_a·len_k), with only the active height h_a heated (conservative: the
-//! heat has no time to spread across the fin during a pass).
+//! ΔT_k = E_k/(ρ·c_p·t·h_e·len_k) at the hottest point across the height: h_e = 1/p_max with p
+//! the thin-sheet loss density across the height ([`super::sheet`], normalised over the fin), so
+//! the rise is that of mid-height (conservative: the heat has no time to spread across the fin
+//! during a pass).
+//!
+//! Vehicle fins are resolved across their height ([`super::height`]): the same loss density
+//! deposits the fin's energy in cells across the height, in time as the braking power, and the
+//! cells conduct into each other during and after the pass. The force law reads their mean; the
+//! hottest cell is the fin's peak.
 
 use super::cells::cell_energies;
-use super::height::{band_weights, diffusivity_m2_s, HeightProfile, Modes, HEIGHT_CELLS};
+use super::height::{diffusivity_m2_s, height_weights, HeightProfile, Modes, HEIGHT_CELLS};
+use super::sheet::SheetLoss;
 use super::ThermalError;
 use crate::dynamics::integrate::TempField;
 use crate::dynamics::model::{active_pairs, ActivePair, PairLaw};
@@ -66,13 +74,18 @@ pub struct FinCapacity {
     pub whole_j_k: f64,
     /// Heat capacity per metre of the heated strip ρ·c_p·t·h_a, J/(m·K) (track fins).
     pub per_m_j_m_k: f64,
-    /// Heated height (active height; the fin height for measured curves), m.
+    /// Heated height: the height whose uniform rise equals the peak rise of the loss
+    /// distribution (the fin height for measured curves), m.
     pub heated_height_m: f64,
+    /// The loss distribution across the height (None: even over the fin height).
+    pub sheet: Option<SheetLoss>,
 }
 
-/// Heat capacities of a fin: whole fin and heated strip. For the strip, the smallest active
-/// height of the fin's pairs is used (conservative); pairs with measured curves carry no pole
-/// height, so they count the full fin height.
+/// Heat capacities of a fin: whole fin and heated strip. The loss across the height is the
+/// thin-sheet distribution of [`super::sheet`] for pairs of the layer model (the pair with the
+/// highest peak density counts, conservative); pairs with measured curves carry no pole height,
+/// so they spread it evenly over the full fin height. The heated height of a track fin is
+/// 1/(peak density): the strip whose uniform rise equals the hottest point's rise.
 pub fn fin_capacity(
     fin: &Fin,
     fin_index: usize,
@@ -80,17 +93,21 @@ pub fn fin_capacity(
 ) -> Result<FinCapacity, ThermalError> {
     let m = &fin.material;
     let rho_c = m.density_kg_m3 * m.specific_heat_j_kg_k;
-    let heated_height_m = tables
-        .pairs
-        .iter()
-        .filter(|p| p.fin == fin_index)
-        .map(|p| match &p.law {
-            PairLaw::Table {
-                active_height_m, ..
-            } => *active_height_m,
-            PairLaw::Measured { .. } => fin.height_m,
-        })
-        .fold(fin.height_m, f64::min);
+    let mut sheet: Option<SheetLoss> = None;
+    let mut peak_per_m = 1.0 / fin.height_m;
+    for p in tables.pairs.iter().filter(|p| p.fin == fin_index) {
+        if let PairLaw::Table { model, .. } = &p.law {
+            let g = model.geometry();
+            if let Some(loss) = SheetLoss::new(g.pole_pitch_m, fin.height_m, g.pole_height_m) {
+                let peak = loss.peak_per_m();
+                if sheet.is_none() || peak > peak_per_m {
+                    peak_per_m = peak;
+                    sheet = Some(loss);
+                }
+            }
+        }
+    }
+    let heated_height_m = 1.0 / peak_per_m;
     let whole_j_k = rho_c * fin.length_m * fin.height_m * fin.thickness_m;
     let per_m_j_m_k = rho_c * fin.thickness_m * heated_height_m;
     if !(whole_j_k.is_finite() && whole_j_k > 0.0 && per_m_j_m_k.is_finite() && per_m_j_m_k > 0.0) {
@@ -103,6 +120,7 @@ pub fn fin_capacity(
         whole_j_k,
         per_m_j_m_k,
         heated_height_m,
+        sheet,
     })
 }
 
@@ -227,8 +245,8 @@ fn pass_options(case: &Case, states: &[FinState], coupling: bool, sample_dt_s: f
     }
 }
 
-/// A vehicle fin: the fin energy deposited in the band the magnets cover (the heated height of
-/// `cap` from the free edge), in time as the vehicle's braking power |F·v| at the samples (trapezoid per
+/// A vehicle fin: the fin energy deposited across the height by the loss distribution of `cap`
+/// (the thin-sheet solution, centred on the band the magnets cover), in time as the vehicle's braking power |F·v| at the samples (trapezoid per
 /// interval, scaled to the fin's integrated energy), with conduction across the height during
 /// the pass. The peak is the hottest cell at any sample.
 pub fn height_pass(
@@ -239,7 +257,10 @@ pub fn height_pass(
 ) -> FinPass {
     let modes = Modes::new(start.temps_c.len());
     let mut p = start.clone();
-    let weights = band_weights(&p, cap.heated_height_m, &|_| 1.0);
+    let weights = match &cap.sheet {
+        Some(sheet) => height_weights(&p, &sheet.from_edge()),
+        None => height_weights(&p, &|_| 1.0),
+    };
     // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
     let n = p.temps_c.len() as f64;
     let mut peak = p.peak_c();
