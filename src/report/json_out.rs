@@ -59,6 +59,8 @@ pub struct HeatCaseJson<'a> {
     peak_decel_first_g: Option<f64>,
     peak_decel_steady_g: Option<f64>,
     magnet_temp_c: f64,
+    magnet_rise_mean_k: Option<f64>,
+    magnet_rise_bound_k: Option<f64>,
     cycles: &'a [crate::thermal::CycleRow],
     warnings: &'a [String],
 }
@@ -111,6 +113,8 @@ impl<'a> HeatJson<'a> {
                     peak_decel_first_g: h.peak_decel_first_g,
                     peak_decel_steady_g: h.peak_decel_steady_g,
                     magnet_temp_c: h.magnet_temp_c,
+                    magnet_rise_mean_k: h.magnet_rise.map(|r| r.mean_k),
+                    magnet_rise_bound_k: h.magnet_rise.map(|r| r.bound_k),
                     cycles: &h.cycles,
                     warnings: &h.warnings,
                 })

@@ -9,6 +9,7 @@
 mod cells;
 pub mod duty;
 pub mod height;
+pub mod magnet;
 pub mod pass;
 pub mod sheet;
 
@@ -43,6 +44,11 @@ pub struct HeatOptions {
     /// The fin temperatures set the conductivity (default true). Off, every pass runs at the
     /// case's fin temperature and only the bookkeeping heats and cools (for checks of the loop).
     pub coupling: bool,
+    /// Inputs of the magnets' warming by the fin across the gap (with a duty block).
+    pub magnet: magnet::MagnetExposure,
+    /// Add the estimated mean magnet rise to the case's magnet temperature for the grade check
+    /// (default false: the magnet temperature stays the input).
+    pub magnet_feedback: bool,
 }
 
 impl Default for HeatOptions {
@@ -51,6 +57,8 @@ impl Default for HeatOptions {
             cell_m: DEFAULT_CELL_M,
             sample_dt_s: 5e-3,
             coupling: true,
+            magnet: magnet::MagnetExposure::default(),
+            magnet_feedback: false,
         }
     }
 }
@@ -181,6 +189,9 @@ pub struct CaseHeat {
     pub track_profiles: Vec<TrackProfile>,
     /// Magnet temperature of the case, °C (an input).
     pub magnet_temp_c: f64,
+    /// Estimated warming of the magnets by the hot fins across the gap over the duty (None
+    /// without a duty block).
+    pub magnet_rise: Option<magnet::MagnetRise>,
     /// Warnings (magnets above their grade limit, no steady state within the cap, ...).
     pub warnings: Vec<String>,
     /// The last pass (full samples, for profiles).
@@ -378,13 +389,29 @@ pub fn heat_case(
             FinState::Height(_) => None,
         })
         .collect();
+    let last_row = &cycles[cycles.len() - 1];
+    let magnet_rise = match (duty, last.run.time_in_zone_s) {
+        (Some(d), Some(exposed_s)) => options.magnet.rise(
+            last_row.peak_fin_temperature_c,
+            d.ambient_c,
+            exposed_s,
+            d.interval_s,
+        ),
+        _ => None,
+    };
+    let magnet_c = case.magnet_temp_c
+        + if options.magnet_feedback {
+            magnet_rise.map_or(0.0, |r| r.mean_k)
+        } else {
+            0.0
+        };
     for sec in &scenario.sections {
         if let Some(g) = sec.grade {
-            if case.magnet_temp_c > g.max_temperature_c() {
+            if magnet_c > g.max_temperature_c() {
                 warnings.push(format!(
                     "magnets of '{}' at {:.0} °C exceed the grade's working limit of {:.0} °C",
                     sec.name,
-                    case.magnet_temp_c,
+                    magnet_c,
                     g.max_temperature_c()
                 ));
             }
@@ -399,7 +426,6 @@ pub fn heat_case(
     }
     warnings.extend(last.run.warnings.iter().cloned());
     let first_row = &cycles[0];
-    let last_row = &cycles[cycles.len() - 1];
     Ok(CaseHeat {
         case: case.name.clone(),
         duty: duty.is_some(),
@@ -413,6 +439,7 @@ pub fn heat_case(
         fins,
         track_profiles,
         magnet_temp_c: case.magnet_temp_c,
+        magnet_rise,
         warnings,
         last_run: Some(last.run),
         steady_start: last_start,
