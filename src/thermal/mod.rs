@@ -9,6 +9,7 @@
 mod cells;
 pub mod duty;
 pub mod height;
+pub mod lift;
 pub mod magnet;
 pub mod pass;
 pub mod sheet;
