@@ -236,3 +236,31 @@ fn hot_fin_brakes_less_below_and_more_above_the_critical_speed() {
     assert!(cold > 12.0, "stays above the hot critical speed: {cold}");
     assert!(hot < cold, "above critical: hot {hot} vs cold {cold}");
 }
+
+/// A lift pass after every drop (tower demo, 1 m/s): its heat enters the duty cycle, so the
+/// steady peak is higher than without it; power = drag × speed. The first law of the lift
+/// itself (∫ drag dx = heat in the fins) is checked in `thermal::lift`.
+#[test]
+fn lift_pass_heats_the_fins_and_reports_its_drag() {
+    let s = shipped("tower-catch-brake.yaml");
+    let tables = BrakeTables::build(&s).unwrap();
+    let case = &s.cases[0];
+    let plain = heat_case(&s, &tables, case, &HeatOptions::default()).unwrap();
+    let opts = HeatOptions {
+        lift_speed_m_s: Some(1.0),
+        ..HeatOptions::default()
+    };
+    let lifted = heat_case(&s, &tables, case, &opts).unwrap();
+    let lift = lifted.lift.expect("a lift pass");
+    assert!(lift.energy_j > 0.0 && lift.peak_drag_n > 0.0);
+    assert!((lift.peak_power_w - lift.peak_drag_n * 1.0).abs() < 1e-12);
+    eprintln!(
+        "lift 1 m/s: drag {:.0} N, heat {:.0} J, steady peak {:.2} vs {:.2} °C",
+        lift.peak_drag_n,
+        lift.energy_j,
+        lifted.steady_peak_fin_temperature_c,
+        plain.steady_peak_fin_temperature_c
+    );
+    assert!(lifted.steady_peak_fin_temperature_c > plain.steady_peak_fin_temperature_c);
+    assert!(plain.lift.is_none());
+}

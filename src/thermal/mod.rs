@@ -50,6 +50,9 @@ pub struct HeatOptions {
     /// Add the estimated mean magnet rise to the case's magnet temperature for the grade check
     /// (default false: the magnet temperature stays the input).
     pub magnet_feedback: bool,
+    /// Haul the vehicle back through the brake at this constant speed after every pass (a
+    /// tower's lift), m/s (default None: no lift pass).
+    pub lift_speed_m_s: Option<f64>,
 }
 
 impl Default for HeatOptions {
@@ -60,6 +63,7 @@ impl Default for HeatOptions {
             coupling: true,
             magnet: magnet::MagnetExposure::default(),
             magnet_feedback: false,
+            lift_speed_m_s: None,
         }
     }
 }
@@ -193,6 +197,8 @@ pub struct CaseHeat {
     /// Estimated warming of the magnets by the hot fins across the gap over the duty (None
     /// without a duty block).
     pub magnet_rise: Option<magnet::MagnetRise>,
+    /// The last lift pass (None without a lift speed).
+    pub lift: Option<lift::LiftPass>,
     /// Warnings (magnets above their grade limit, no steady state within the cap, ...).
     pub warnings: Vec<String>,
     /// The last pass (full samples, for profiles).
@@ -259,6 +265,7 @@ pub fn heat_case(
     let mut corrections = vec![0.0f64; n_fins];
     let mut uncoupled_cache: Option<PassHeat> = None;
     let mut warnings = Vec::new();
+    let mut lift_pass: Option<lift::LiftPass> = None;
 
     for cycle in 1..=max_cycles {
         let heat = match (&uncoupled_cache, options.coupling) {
@@ -317,6 +324,9 @@ pub fn heat_case(
             heat.fins.iter().map(|f| f.end.clone()).collect(),
         );
         last = Some(heat);
+        if let Some(v) = options.lift_speed_m_s {
+            lift_pass = Some(lift::apply_lift(scenario, tables, case, &mut states, v)?);
+        }
         if stop_at_steady && case_steady.is_some() {
             break;
         }
@@ -441,6 +451,7 @@ pub fn heat_case(
         track_profiles,
         magnet_temp_c: case.magnet_temp_c,
         magnet_rise,
+        lift: lift_pass,
         warnings,
         last_run: Some(last.run),
         steady_start: last_start,
