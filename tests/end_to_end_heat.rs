@@ -67,6 +67,9 @@ fn heat_json_has_the_documented_keys() {
                 let steady = f["steady_peak_temperature_c"].as_f64().unwrap();
                 assert!(steady > ambient, "{steady} vs ambient {ambient}");
                 assert!(f["rise_per_pass_k"].as_f64().unwrap() > 0.0);
+                // The hottest point is never below the fin's mean.
+                let mean = f["steady_mean_temperature_c"].as_f64().unwrap();
+                assert!(mean <= steady + 1e-9, "{mean} vs {steady}");
             }
         }
     }

@@ -238,6 +238,15 @@ pub fn heat_text(s: &Scenario, heats: &[CaseHeat], warnings: &[String]) -> Strin
             h.cycles_to_steady
                 .map_or("—".to_string(), |c| c.to_string())
         );
+        if let Some(r) = h.magnet_rise {
+            outln!(
+                out,
+                "  magnets warmed by the fins across the gap: {:.1} K on average over the duty \
+                 (bound {:.1} K)",
+                r.mean_k,
+                r.bound_k
+            );
+        }
         let mut t = Table::new(&[
             "cycle",
             "exit_m_s",

@@ -1,7 +1,8 @@
 //! Cooling between dispatches and the steady state of a duty cycle.
 //!
 //! Between passes every fin (vehicle fins as one lump, track fins cell by cell) cools by Newton's
-//! law towards the ambient air with the lumped-capacitance time constant τ = m·c_p/(h·A), A both
+//! law towards the ambient air (vehicle fins conduct across their height meanwhile, see
+//! [`super::height`]) with the lumped-capacitance time constant τ = m·c_p/(h·A), A both
 //! faces (Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, 6th ed. 2007, §5.2, eq.
 //! 5.6): T(Δt) = T_amb + (T − T_amb)·e^(−Δt/τ). For a plate of thickness t heated through its
 //! thickness, m/A = ρ·t/2, so τ = ρ·c_p·t/(2h) for the whole fin and for each cell alike. Heat
@@ -44,7 +45,9 @@ pub fn cool_c(temp_c: f64, ambient_c: f64, interval_s: f64, tau_s: f64) -> f64 {
 /// Cools a fin state in place.
 pub fn cool_state(state: &mut FinState, ambient_c: f64, interval_s: f64, tau_s: f64) {
     match state {
-        FinState::Lumped(t) => *t = cool_c(*t, ambient_c, interval_s, tau_s),
+        FinState::Height(p) => {
+            super::height::Modes::new(p.temps_c.len()).step(p, None, interval_s, tau_s, ambient_c)
+        }
         FinState::Field(f) => f
             .temps_c
             .iter_mut()

@@ -8,7 +8,11 @@
 
 mod cells;
 pub mod duty;
+pub mod height;
+pub mod lift;
+pub mod magnet;
 pub mod pass;
+pub mod sheet;
 
 pub use duty::{cool_c, steady_peak_c, time_constant_s, STEADY_TOLERANCE_K};
 pub use pass::{run_pass, FinState, PassHeat, DEFAULT_CELL_M};
@@ -41,6 +45,14 @@ pub struct HeatOptions {
     /// The fin temperatures set the conductivity (default true). Off, every pass runs at the
     /// case's fin temperature and only the bookkeeping heats and cools (for checks of the loop).
     pub coupling: bool,
+    /// Inputs of the magnets' warming by the fin across the gap (with a duty block).
+    pub magnet: magnet::MagnetExposure,
+    /// Add the estimated mean magnet rise to the case's magnet temperature for the grade check
+    /// (default false: the magnet temperature stays the input).
+    pub magnet_feedback: bool,
+    /// Haul the vehicle back through the brake at this constant speed after every pass (a
+    /// tower's lift), m/s (default None: no lift pass).
+    pub lift_speed_m_s: Option<f64>,
 }
 
 impl Default for HeatOptions {
@@ -49,6 +61,9 @@ impl Default for HeatOptions {
             cell_m: DEFAULT_CELL_M,
             sample_dt_s: 5e-3,
             coupling: true,
+            magnet: magnet::MagnetExposure::default(),
+            magnet_feedback: false,
+            lift_speed_m_s: None,
         }
     }
 }
@@ -66,8 +81,11 @@ pub struct CycleRow {
     pub braking_energy_j: f64,
     /// Highest fin temperature right after the pass, over all fins, °C.
     pub peak_fin_temperature_c: f64,
-    /// Highest temperature right after the pass per fin (scenario order), °C.
+    /// Highest temperature during the pass per fin (scenario order; vehicle fins: the hottest
+    /// cell across the height), °C.
     pub fin_peaks_c: Vec<f64>,
+    /// Mean (lumped) temperature right after the pass per fin, °C.
+    pub fin_means_c: Vec<f64>,
 }
 
 /// Heat result of one fin.
@@ -81,14 +99,19 @@ pub struct FinHeatResult {
     pub energy_per_pass_j: f64,
     /// Largest rise of the first pass, K.
     pub rise_per_pass_k: f64,
-    /// Highest temperature after the first pass, °C.
+    /// Highest temperature of the first pass, °C (vehicle fins: the hottest cell across the
+    /// height, which the verdict judges).
     pub peak_temperature_c: f64,
+    /// Mean (lumped) temperature after the first pass, °C.
+    pub mean_temperature_c: f64,
     /// Energy of the last pass, J.
     pub energy_last_pass_j: f64,
     /// Largest rise of the last pass, K.
     pub rise_last_pass_k: f64,
-    /// Highest temperature after the last pass, °C.
+    /// Highest temperature of the last pass, °C.
     pub steady_peak_temperature_c: f64,
+    /// Mean (lumped) temperature after the last pass, °C.
+    pub steady_mean_temperature_c: f64,
     /// Highest temperature before the last dispatch (the steady pre-dispatch state with a duty
     /// block; the case's fin temperature without one), °C.
     pub steady_start_temperature_c: f64,
@@ -97,7 +120,8 @@ pub struct FinHeatResult {
     pub cycles_to_steady: Option<u32>,
     /// Cooling time constant ρ·c_p·t/(2h), s (None without a duty block or with h = 0).
     pub time_constant_s: Option<f64>,
-    /// Heated height of a track fin (active height), m (None for vehicle fins).
+    /// Heated height of a track fin: the height whose uniform rise equals the peak rise of the
+    /// thin-sheet loss distribution (active height / peak-to-mean ratio), m (None for vehicle fins).
     pub heated_height_m: Option<f64>,
     /// Largest relative correction of the cell quadrature over all passes (track fins).
     pub quadrature_correction: f64,
@@ -170,6 +194,11 @@ pub struct CaseHeat {
     pub track_profiles: Vec<TrackProfile>,
     /// Magnet temperature of the case, °C (an input).
     pub magnet_temp_c: f64,
+    /// Estimated warming of the magnets by the hot fins across the gap over the duty (None
+    /// without a duty block).
+    pub magnet_rise: Option<magnet::MagnetRise>,
+    /// The last lift pass (None without a lift speed).
+    pub lift: Option<lift::LiftPass>,
     /// Warnings (magnets above their grade limit, no steady state within the cap, ...).
     pub warnings: Vec<String>,
     /// The last pass (full samples, for profiles).
@@ -236,11 +265,12 @@ pub fn heat_case(
     let mut corrections = vec![0.0f64; n_fins];
     let mut uncoupled_cache: Option<PassHeat> = None;
     let mut warnings = Vec::new();
+    let mut lift_pass: Option<lift::LiftPass> = None;
 
     for cycle in 1..=max_cycles {
         let heat = match (&uncoupled_cache, options.coupling) {
             // Without coupling every pass is the same run; only the bookkeeping differs.
-            (Some(c), false) => rebook(c, &states, scenario),
+            (Some(c), false) => rebook(c, &states, scenario, tables)?,
             _ => {
                 let h = run_pass(
                     scenario,
@@ -256,7 +286,8 @@ pub fn heat_case(
                 h
             }
         };
-        let fin_peaks: Vec<f64> = heat.fins.iter().map(|f| f.end.peak_c()).collect();
+        let fin_peaks: Vec<f64> = heat.fins.iter().map(|f| f.peak_c).collect();
+        let fin_means: Vec<f64> = heat.fins.iter().map(|f| f.end.mean_c()).collect();
         for (c, f) in corrections.iter_mut().zip(&heat.fins) {
             *c = c.max(f.quadrature_correction);
         }
@@ -267,6 +298,7 @@ pub fn heat_case(
             braking_energy_j: heat.run.braking_energy_j,
             peak_fin_temperature_c: max_of(&fin_peaks),
             fin_peaks_c: fin_peaks.clone(),
+            fin_means_c: fin_means,
         };
         if let Some(prev) = cycles.last() {
             for i in 0..n_fins {
@@ -292,6 +324,9 @@ pub fn heat_case(
             heat.fins.iter().map(|f| f.end.clone()).collect(),
         );
         last = Some(heat);
+        if let Some(v) = options.lift_speed_m_s {
+            lift_pass = Some(lift::apply_lift(scenario, tables, case, &mut states, v)?);
+        }
         if stop_at_steady && case_steady.is_some() {
             break;
         }
@@ -329,10 +364,12 @@ pub fn heat_case(
             mount: mount_name(f.mount),
             energy_per_pass_j: first[i].energy_j,
             rise_per_pass_k: max_of(&first[i].rise_k),
-            peak_temperature_c: first[i].end.peak_c(),
+            peak_temperature_c: first[i].peak_c,
+            mean_temperature_c: first[i].end.mean_c(),
             energy_last_pass_j: last.fins[i].energy_j,
             rise_last_pass_k: max_of(&last.fins[i].rise_k),
-            steady_peak_temperature_c: last.fins[i].end.peak_c(),
+            steady_peak_temperature_c: last.fins[i].peak_c,
+            steady_mean_temperature_c: last.fins[i].end.mean_c(),
             steady_start_temperature_c: last_start[i].peak_c(),
             cycles_to_steady: fin_steady[i],
             time_constant_s: taus[i].filter(|t| t.is_finite()),
@@ -360,16 +397,32 @@ pub fn heat_case(
                     .collect(),
                 rise_k: p.rise_k.clone(),
             }),
-            FinState::Lumped(_) => None,
+            FinState::Height(_) => None,
         })
         .collect();
+    let last_row = &cycles[cycles.len() - 1];
+    let magnet_rise = match (duty, last.run.time_in_zone_s) {
+        (Some(d), Some(exposed_s)) => options.magnet.rise(
+            last_row.peak_fin_temperature_c,
+            d.ambient_c,
+            exposed_s,
+            d.interval_s,
+        ),
+        _ => None,
+    };
+    let magnet_c = case.magnet_temp_c
+        + if options.magnet_feedback {
+            magnet_rise.map_or(0.0, |r| r.mean_k)
+        } else {
+            0.0
+        };
     for sec in &scenario.sections {
         if let Some(g) = sec.grade {
-            if case.magnet_temp_c > g.max_temperature_c() {
+            if magnet_c > g.max_temperature_c() {
                 warnings.push(format!(
                     "magnets of '{}' at {:.0} °C exceed the grade's working limit of {:.0} °C",
                     sec.name,
-                    case.magnet_temp_c,
+                    magnet_c,
                     g.max_temperature_c()
                 ));
             }
@@ -384,7 +437,6 @@ pub fn heat_case(
     }
     warnings.extend(last.run.warnings.iter().cloned());
     let first_row = &cycles[0];
-    let last_row = &cycles[cycles.len() - 1];
     Ok(CaseHeat {
         case: case.name.clone(),
         duty: duty.is_some(),
@@ -398,6 +450,8 @@ pub fn heat_case(
         fins,
         track_profiles,
         magnet_temp_c: case.magnet_temp_c,
+        magnet_rise,
+        lift: lift_pass,
         warnings,
         last_run: Some(last.run),
         steady_start: last_start,
@@ -405,33 +459,42 @@ pub fn heat_case(
     })
 }
 
-/// The same pass with its rises added to new start states (no coupling: the run is unchanged).
-fn rebook(c: &PassHeat, states: &[FinState], _scenario: &Scenario) -> PassHeat {
+/// The same pass with its heat laid onto new start states (no coupling: the run is unchanged).
+fn rebook(
+    c: &PassHeat,
+    states: &[FinState],
+    scenario: &Scenario,
+    tables: &BrakeTables,
+) -> Result<PassHeat, ThermalError> {
     let fins = c
         .fins
         .iter()
         .zip(states)
-        .map(|(f, s)| {
-            let end = match s {
-                FinState::Lumped(t) => {
-                    FinState::Lumped(t + f.rise_k.first().copied().unwrap_or(0.0))
-                }
-                FinState::Field(field) => {
-                    let mut e = field.clone();
-                    e.temps_c
-                        .iter_mut()
-                        .zip(&f.rise_k)
-                        .for_each(|(t, r)| *t += r);
-                    FinState::Field(e)
-                }
-            };
-            pass::FinPass { end, ..f.clone() }
+        .enumerate()
+        .map(|(i, (f, s))| match s {
+            FinState::Height(p) => {
+                let cap = pass::fin_capacity(&scenario.fins[i], i, tables)?;
+                Ok(pass::height_pass(&c.run, p, f.energy_j, &cap))
+            }
+            FinState::Field(field) => {
+                let mut e = field.clone();
+                e.temps_c
+                    .iter_mut()
+                    .zip(&f.rise_k)
+                    .for_each(|(t, r)| *t += r);
+                let peak_c = e.temps_c.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+                Ok(pass::FinPass {
+                    end: FinState::Field(e),
+                    peak_c,
+                    ..f.clone()
+                })
+            }
         })
-        .collect();
-    PassHeat {
+        .collect::<Result<_, ThermalError>>()?;
+    Ok(PassHeat {
         run: c.run.clone(),
         fins,
-    }
+    })
 }
 
 /// Run options that start a case from the given fin states: each vehicle fin at its lumped
@@ -442,7 +505,7 @@ pub fn start_from_states(states: &[FinState], case: &Case, base: RunOptions) -> 
             states
                 .iter()
                 .map(|s| match s {
-                    FinState::Lumped(t) => *t,
+                    FinState::Height(p) => p.mean_c(),
                     FinState::Field(_) => case.fin_temp_c,
                 })
                 .collect(),
@@ -451,7 +514,7 @@ pub fn start_from_states(states: &[FinState], case: &Case, base: RunOptions) -> 
             states
                 .iter()
                 .map(|s| match s {
-                    FinState::Lumped(_) => None,
+                    FinState::Height(_) => None,
                     FinState::Field(f) => Some(f.clone()),
                 })
                 .collect(),

@@ -1,9 +1,9 @@
 //! Heat of one pass: the energy each fin takes up, and for fins along the track where along the
 //! fin it is deposited.
 //!
-//! Vehicle fins are lumped: the dynamics integrates each fin's dissipated energy E with the
-//! motion (state index 4 + fin) and its temperature T = T0 + E/(m·c_p) feeds back into σ(T)
-//! during the pass; the rise is ΔT = E/(m·c_p) with m the whole fin (first law for a body of
+//! For vehicle fins the dynamics integrates each fin's dissipated energy E with the motion
+//! (state index 4 + fin) and its mean temperature T = T0 + E/(m·c_p) feeds back into σ(T)
+//! during the pass, with m the whole fin (first law for a body of
 //! uniform temperature, Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, 2007, §5.2).
 //!
 //! Track fins are split into cells of `cell_m` (default 5 cm) from the fin's upstream end. A
@@ -17,10 +17,19 @@
 //! integrator carries only by the quadrature error (reported as `quadrature_correction`,
 //! typically 1e-9 or less); the cell energies are then scaled by the fin's integrated energy
 //! over their sum so that they add up to it exactly. The rise of a cell is
-//! ΔT_k = E_k/(ρ·c_p·t·h_a·len_k), with only the active height h_a heated (conservative: the
-//! heat has no time to spread across the fin during a pass).
+//! ΔT_k = E_k/(ρ·c_p·t·h_e·len_k) at the hottest point across the height: h_e = 1/p_max with p
+//! the thin-sheet loss density across the height ([`super::sheet`], normalised over the fin), so
+//! the rise is that of mid-height (conservative: the heat has no time to spread across the fin
+//! during a pass).
+//!
+//! Vehicle fins are resolved across their height ([`super::height`]): the same loss density
+//! deposits the fin's energy in cells across the height, in time as the braking power, and the
+//! cells conduct into each other during and after the pass. The force law reads their mean; the
+//! hottest cell is the fin's peak.
 
 use super::cells::cell_energies;
+use super::height::{diffusivity_m2_s, height_weights, HeightProfile, Modes, HEIGHT_CELLS};
+use super::sheet::SheetLoss;
 use super::ThermalError;
 use crate::dynamics::integrate::TempField;
 use crate::dynamics::model::{active_pairs, ActivePair, PairLaw};
@@ -34,8 +43,8 @@ pub const DEFAULT_CELL_M: f64 = crate::scenario::defaults::HEAT_CELL_M;
 /// The thermal state of a fin between passes.
 #[derive(Debug, Clone, PartialEq)]
 pub enum FinState {
-    /// A vehicle fin: one lumped temperature, °C.
-    Lumped(f64),
+    /// A vehicle fin: its temperatures across the height (the force law reads their mean).
+    Height(HeightProfile),
     /// A track fin: a temperature per cell.
     Field(TempField),
 }
@@ -44,8 +53,16 @@ impl FinState {
     /// Highest temperature of the fin, °C.
     pub fn peak_c(&self) -> f64 {
         match self {
-            FinState::Lumped(t) => *t,
+            FinState::Height(p) => p.peak_c(),
             FinState::Field(f) => f.temps_c.iter().copied().fold(f64::NEG_INFINITY, f64::max),
+        }
+    }
+
+    /// Mean temperature of the fin (the lumped value; for track fins the mean of the cells), °C.
+    pub fn mean_c(&self) -> f64 {
+        match self {
+            FinState::Height(p) => p.mean_c(),
+            FinState::Field(f) => f.temps_c.iter().sum::<f64>() / f.temps_c.len().max(1) as f64,
         }
     }
 }
@@ -57,13 +74,18 @@ pub struct FinCapacity {
     pub whole_j_k: f64,
     /// Heat capacity per metre of the heated strip ρ·c_p·t·h_a, J/(m·K) (track fins).
     pub per_m_j_m_k: f64,
-    /// Heated height (active height; the fin height for measured curves), m.
+    /// Heated height: the height whose uniform rise equals the peak rise of the loss
+    /// distribution (the fin height for measured curves), m.
     pub heated_height_m: f64,
+    /// The loss distribution across the height (None: even over the fin height).
+    pub sheet: Option<SheetLoss>,
 }
 
-/// Heat capacities of a fin: whole fin and heated strip. For the strip, the smallest active
-/// height of the fin's pairs is used (conservative); pairs with measured curves carry no pole
-/// height, so they count the full fin height.
+/// Heat capacities of a fin: whole fin and heated strip. The loss across the height is the
+/// thin-sheet distribution of [`super::sheet`] for pairs of the layer model (the pair with the
+/// highest peak density counts, conservative); pairs with measured curves carry no pole height,
+/// so they spread it evenly over the full fin height. The heated height of a track fin is
+/// 1/(peak density): the strip whose uniform rise equals the hottest point's rise.
 pub fn fin_capacity(
     fin: &Fin,
     fin_index: usize,
@@ -71,17 +93,21 @@ pub fn fin_capacity(
 ) -> Result<FinCapacity, ThermalError> {
     let m = &fin.material;
     let rho_c = m.density_kg_m3 * m.specific_heat_j_kg_k;
-    let heated_height_m = tables
-        .pairs
-        .iter()
-        .filter(|p| p.fin == fin_index)
-        .map(|p| match &p.law {
-            PairLaw::Table {
-                active_height_m, ..
-            } => *active_height_m,
-            PairLaw::Measured { .. } => fin.height_m,
-        })
-        .fold(fin.height_m, f64::min);
+    let mut sheet: Option<SheetLoss> = None;
+    let mut peak_per_m = 1.0 / fin.height_m;
+    for p in tables.pairs.iter().filter(|p| p.fin == fin_index) {
+        if let PairLaw::Table { model, .. } = &p.law {
+            let g = model.geometry();
+            if let Some(loss) = SheetLoss::new(g.pole_pitch_m, fin.height_m, g.pole_height_m) {
+                let peak = loss.peak_per_m();
+                if sheet.is_none() || peak > peak_per_m {
+                    peak_per_m = peak;
+                    sheet = Some(loss);
+                }
+            }
+        }
+    }
+    let heated_height_m = 1.0 / peak_per_m;
     let whole_j_k = rho_c * fin.length_m * fin.height_m * fin.thickness_m;
     let per_m_j_m_k = rho_c * fin.thickness_m * heated_height_m;
     if !(whole_j_k.is_finite() && whole_j_k > 0.0 && per_m_j_m_k.is_finite() && per_m_j_m_k > 0.0) {
@@ -94,6 +120,7 @@ pub fn fin_capacity(
         whole_j_k,
         per_m_j_m_k,
         heated_height_m,
+        sheet,
     })
 }
 
@@ -103,7 +130,12 @@ pub fn uniform_states(scenario: &Scenario, temp_c: f64, cell_m: f64) -> Vec<FinS
         .fins
         .iter()
         .map(|f| match f.mount {
-            Mount::Vehicle { .. } => FinState::Lumped(temp_c),
+            Mount::Vehicle { .. } => FinState::Height(HeightProfile::uniform(
+                f.height_m,
+                diffusivity_m2_s(&f.material),
+                HEIGHT_CELLS,
+                temp_c,
+            )),
             Mount::Track { start_m } => {
                 let n = ((f.length_m / cell_m).ceil() as usize).max(1);
                 FinState::Field(TempField {
@@ -123,8 +155,10 @@ pub struct FinPass {
     pub energy_j: f64,
     /// State after the pass.
     pub end: FinState,
-    /// Rise of each cell (track fins) or the single rise (vehicle fins), K.
+    /// Rise of each cell (track fins) or of the hottest cell over the pass (vehicle fins), K.
     pub rise_k: Vec<f64>,
+    /// Hottest temperature during the pass, °C (for track fins the end state's peak).
+    pub peak_c: f64,
     /// Relative size of the trapezoid-rule correction of the cell energies (0 for vehicle fins).
     pub quadrature_correction: f64,
 }
@@ -172,7 +206,7 @@ pub fn run_pass(
         .map(|(i, state)| {
             let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
             match state {
-                FinState::Lumped(t0) => lumped_pass(*t0, energy_j, &caps[i]),
+                FinState::Height(p0) => height_pass(&run, p0, energy_j, &caps[i]),
                 FinState::Field(field) => {
                     let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
                     let track = TrackFin {
@@ -211,13 +245,61 @@ fn pass_options(case: &Case, states: &[FinState], coupling: bool, sample_dt_s: f
     }
 }
 
-/// A vehicle fin: one lumped rise.
-fn lumped_pass(t0: f64, energy_j: f64, cap: &FinCapacity) -> FinPass {
-    let rise = energy_j / cap.whole_j_k;
+/// A vehicle fin: the fin energy deposited across the height by the loss distribution of `cap`
+/// (the thin-sheet solution, centred on the band the magnets cover), in time as the vehicle's braking power |F·v| at the samples (trapezoid per
+/// interval, scaled to the fin's integrated energy), with conduction across the height during
+/// the pass. The peak is the hottest cell at any sample.
+pub fn height_pass(
+    run: &RunResult,
+    start: &HeightProfile,
+    energy_j: f64,
+    cap: &FinCapacity,
+) -> FinPass {
+    let modes = Modes::new(start.temps_c.len());
+    let mut p = start.clone();
+    let weights = match &cap.sheet {
+        Some(sheet) => height_weights(&p, &sheet.from_edge()),
+        None => height_weights(&p, &|_| 1.0),
+    };
+    // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
+    let n = p.temps_c.len() as f64;
+    let mut peak = p.peak_c();
+    let powers: Vec<(f64, f64)> = run
+        .samples
+        .iter()
+        .map(|s| (s.t_s, (s.brake_force_n * s.v_m_s).abs()))
+        .collect();
+    let pieces: Vec<(f64, f64)> = powers
+        .windows(2)
+        .map(|w| (w[1].0 - w[0].0, 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)))
+        .collect();
+    let total: f64 = pieces.iter().map(|x| x.1).sum();
+    let mean_rise_k = energy_j / cap.whole_j_k;
+    let deposit = |p: &mut HeightProfile, fraction: f64, dt: f64| {
+        let q: Vec<f64> = weights
+            .iter()
+            .map(|w| w * n * mean_rise_k * fraction / dt.max(1e-300))
+            .collect();
+        modes.step(p, Some(&q), dt, f64::INFINITY, 0.0);
+    };
+    if total > 0.0 && total.is_finite() {
+        for (dt, e) in pieces {
+            if dt > 0.0 {
+                deposit(&mut p, e / total, dt);
+            }
+            peak = peak.max(p.peak_c());
+        }
+    } else if energy_j > 0.0 {
+        for (t, w) in p.temps_c.iter_mut().zip(&weights) {
+            *t += w * n * mean_rise_k;
+        }
+        peak = peak.max(p.peak_c());
+    }
     FinPass {
         energy_j,
-        end: FinState::Lumped(t0 + rise),
-        rise_k: vec![rise],
+        rise_k: vec![peak - start.peak_c()],
+        peak_c: peak,
+        end: FinState::Height(p),
         quadrature_correction: 0.0,
     }
 }
@@ -272,8 +354,14 @@ fn field_pass(
             .collect(),
         ..field.clone()
     };
+    let peak_c = end
+        .temps_c
+        .iter()
+        .copied()
+        .fold(f64::NEG_INFINITY, f64::max);
     FinPass {
         energy_j,
+        peak_c,
         end: FinState::Field(end),
         rise_k,
         quadrature_correction: correction,
