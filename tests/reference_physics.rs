@@ -606,7 +606,10 @@ proptest! {
         // relative at 200 random speeds of the range, and the exact model beyond it.
         let m = DragModel::new(&g, 1.2, sigma).expect("valid generated geometry");
         let t = ForceTable::build(&m, vmax);
-        prop_assert_eq!(t.max_speed_m_s(), vmax);
+        // A panel whose series does not converge ends the table early and the exact model
+        // serves the speeds above (seen for zero clearance with a fin no taller than the
+        // poles), so the accuracy below holds at every speed either way.
+        prop_assert!(t.max_speed_m_s() <= vmax);
         for &s in &fractions {
             let v = s * vmax;
             let (got, want) = (t.force_per_area_pa(v), m.force_per_area_pa(v));

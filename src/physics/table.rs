@@ -168,7 +168,8 @@ fn horner_slope(a: &[f64; TERMS], x: f64) -> f64 {
 impl ForceTable {
     /// Tabulates `model` from 0 to `max_speed_m_s` (m/s). A maximum speed that is not finite and
     /// positive gives an empty table that always uses the exact model. A panel whose series does
-    /// not converge (not seen for valid geometries) ends the table there (see
+    /// not converge (seen for degenerate geometries, e.g. zero clearance with a fin no taller than the
+    /// poles) ends the table there (see
     /// [`ForceTable::max_speed_m_s`]) and the exact model serves the speeds above it.
     pub fn build(model: &DragModel, max_speed_m_s: f64) -> Self {
         let mut table = ForceTable {
