@@ -23,6 +23,9 @@ use proptest::prelude::*;
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
 
+mod common;
+use common::numbers;
+
 /// The longest any one input may take through the whole pipeline (common practice: a hang
 /// shows as minutes; the slowest shipped demo takes about 4 s on the 2-core CI machine).
 const PER_INPUT: Duration = Duration::from_secs(60);
@@ -82,25 +85,6 @@ fn bases() -> Vec<(String, String)> {
         )
     })
     .collect()
-}
-
-/// Byte ranges of the numbers of `text`.
-fn numbers(text: &str) -> Vec<(usize, usize)> {
-    let b = text.as_bytes();
-    let mut out = vec![];
-    let mut i = 0;
-    while i < b.len() {
-        if b[i].is_ascii_digit() && (i == 0 || !(b[i - 1] as char).is_ascii_alphanumeric()) {
-            let s = i;
-            while i < b.len() && (b[i].is_ascii_digit() || b[i] == b'.') {
-                i += 1;
-            }
-            out.push((s, i));
-        } else {
-            i += 1;
-        }
-    }
-    out
 }
 
 /// One mutation of a scenario's text.

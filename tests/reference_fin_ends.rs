@@ -21,37 +21,8 @@ use eddyzone::physics::{fin_end_lengths, BrakeGeometry, DragModel, FinEndTable};
 use num_complex::Complex64;
 use std::f64::consts::PI;
 
-fn section() -> BrakeGeometry {
-    BrakeGeometry {
-        pole_pitch_m: 0.050,
-        magnet_thickness_m: 0.012,
-        magnet_fill: 0.9,
-        clearance_m: 0.006,
-        fin_thickness_m: 0.009,
-        fin_height_m: 1.0,
-        pole_height_m: 1.0,
-    }
-}
-
-fn copper_section() -> BrakeGeometry {
-    BrakeGeometry {
-        pole_pitch_m: 0.080,
-        magnet_thickness_m: 0.018,
-        magnet_fill: 0.75,
-        clearance_m: 0.003,
-        fin_thickness_m: 0.006,
-        fin_height_m: 1.0,
-        pole_height_m: 1.0,
-    }
-}
-
-const ALUMINIUM_S_M: f64 = 26e6;
-const COPPER_S_M: f64 = 58e6;
-
-fn critical_m_s(g: &BrakeGeometry, sigma: f64) -> f64 {
-    let k = PI / g.pole_pitch_m;
-    2.0 * (k * g.centre_to_iron_m()).tanh() / (MU0_H_M * sigma * g.fin_thickness_m)
-}
+mod common;
+use common::{copper_section, critical_m_s, section, ALUMINIUM_S_M, COPPER_S_M};
 
 /// Complex banded LU without pivoting (diagonally dominant: diffusion plus an imaginary shift).
 fn solve_banded(

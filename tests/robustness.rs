@@ -8,6 +8,8 @@ use eddyzone::dynamics::{simulate_case, BrakeTables, RunOptions};
 use eddyzone::scenario::parse_str;
 use proptest::prelude::*;
 
+mod common;
+
 const BASE: &str = r#"name: robust
 start: { position: 5 m, speed: 12 m/s }
 vehicle:
@@ -27,21 +29,7 @@ generate: { each_section_out: true, rollback: { speed: 2 m/s } }
 
 /// The numbers of the base scenario, in order of appearance.
 fn numbers() -> Vec<(usize, usize)> {
-    let b = BASE.as_bytes();
-    let mut out = vec![];
-    let mut i = 0;
-    while i < b.len() {
-        if b[i].is_ascii_digit() && (i == 0 || !(b[i - 1] as char).is_ascii_alphanumeric()) {
-            let s = i;
-            while i < b.len() && (b[i].is_ascii_digit() || b[i] == b'.') {
-                i += 1;
-            }
-            out.push((s, i));
-        } else {
-            i += 1;
-        }
-    }
-    out
+    common::numbers(BASE)
 }
 
 fn try_everything(text: &str) {

@@ -285,6 +285,16 @@ mod tests {
         r
     }
 
+    /// A seated rider (track along x) without a filter.
+    fn seated_unfiltered() -> Rider {
+        Rider {
+            passengers: true,
+            track_axis: Axis::X,
+            filter: None,
+            rates: Default::default(),
+        }
+    }
+
     fn empty_run() -> RunResult {
         RunResult::empty("c", 1000.0, 0.0)
     }
@@ -314,12 +324,7 @@ mod tests {
             .map(|i| sample(i as f64 * 1e-3, -9806.65, 1.0))
             .collect();
         let r = run_with(samples);
-        let seated = Rider {
-            passengers: true,
-            track_axis: Axis::X,
-            filter: None,
-            rates: Default::default(),
-        };
+        let seated = seated_unfiltered();
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_min_g + 1.0).abs() < 1e-12);
         assert!((s.peaks()[2].raw_max_g - 1.0).abs() < 1e-12);
@@ -351,12 +356,7 @@ mod tests {
             })
             .collect();
         let r = run_with(samples);
-        let seated = Rider {
-            passengers: true,
-            track_axis: Axis::X,
-            filter: None,
-            rates: Default::default(),
-        };
+        let seated = seated_unfiltered();
         let s = rider_signals(&r, &seated).unwrap();
         assert!((s.peaks()[0].raw_max_g - 1.0).abs() < 1e-12);
         assert!(s.peaks()[0].raw_min_g > 0.999);
@@ -381,12 +381,7 @@ mod tests {
             })
             .collect();
         let r = run_with(samples);
-        let seated = Rider {
-            passengers: true,
-            track_axis: Axis::X,
-            filter: None,
-            rates: Default::default(),
-        };
+        let seated = seated_unfiltered();
         let cols = profile_columns(&r, &seated);
         let names: Vec<&str> = cols.iter().map(|c| c.0.as_str()).collect();
         assert_eq!(
@@ -419,12 +414,7 @@ mod tests {
     #[test]
     fn too_few_samples_is_an_error_not_a_silence() {
         let r = run_with(vec![sample(0.0, 0.0, 1.0)]);
-        let seated = Rider {
-            passengers: true,
-            track_axis: Axis::X,
-            filter: None,
-            rates: Default::default(),
-        };
+        let seated = seated_unfiltered();
         assert_eq!(
             rider_signals(&r, &seated).err(),
             Some(RiderSignalError::TooFewSamples)
@@ -443,12 +433,7 @@ mod tests {
             })
             .collect();
         let r = run_with(samples);
-        let rider = Rider {
-            passengers: true,
-            track_axis: Axis::X,
-            filter: None,
-            rates: Default::default(),
-        };
+        let rider = seated_unfiltered();
         let s = rider_signals(&r, &rider).unwrap();
         let expected = 1.0 - 400.0 / (9.80665 * 50.0);
         assert!(
