@@ -13,6 +13,29 @@
 //! - [`HermiteWeights`]: the four cardinal basis functions h00, h10, h01, h11 at one t, for
 //!   blending many quantities at the same t (all entries of a state vector between two step ends).
 
+/// Piecewise-linear interpolation through `points` (x increasing), held at the first and last
+/// values beyond them; 0 for no points.
+pub fn interp_clamped(points: &[(f64, f64)], x: f64) -> f64 {
+    let (Some(&(x0, y0)), Some(&(xn, yn))) = (points.first(), points.last()) else {
+        return 0.0;
+    };
+    if x <= x0 {
+        return y0;
+    }
+    if x >= xn {
+        return yn;
+    }
+    let k = points
+        .partition_point(|p| p.0 <= x)
+        .clamp(1, points.len() - 1);
+    let ((xa, ya), (xb, yb)) = (points[k - 1], points[k]);
+    if xb > xa {
+        ya + (yb - ya) * (x - xa) / (xb - xa)
+    } else {
+        yb
+    }
+}
+
 /// A cubic Hermite piece in power-basis form on t ∈ [0, 1].
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct CubicHermite {
@@ -126,5 +149,20 @@ mod tests {
         assert_eq!(c.value(1.0), 4.0);
         assert_eq!(c.derivative(0.0), 0.5);
         assert_eq!(c.derivative(1.0), -2.0);
+    }
+
+    /// Linear interpolation reproduces a straight line between nodes and holds beyond the ends
+    /// (definition).
+    #[test]
+    fn interp_clamped_is_linear_between_nodes_and_held_beyond() {
+        let p = [(0.0, 1.0), (2.0, 3.0), (4.0, 3.0), (5.0, 0.0)];
+        assert_eq!(interp_clamped(&p, -1.0), 1.0);
+        assert_eq!(interp_clamped(&p, 9.0), 0.0);
+        assert!((interp_clamped(&p, 1.0) - 2.0).abs() < 1e-15);
+        assert!((interp_clamped(&p, 3.0) - 3.0).abs() < 1e-15);
+        assert!((interp_clamped(&p, 4.5) - 1.5).abs() < 1e-15);
+        assert_eq!(interp_clamped(&p, 2.0), 3.0);
+        assert_eq!(interp_clamped(&[], 2.0), 0.0);
+        assert_eq!(interp_clamped(&[(1.0, 7.0)], 2.0), 7.0);
     }
 }

@@ -109,3 +109,61 @@ fn heat_profiles_and_table() {
         .unwrap();
     assert_eq!(bad.status.code(), Some(2));
 }
+
+/// The tower demo's `duty.lift` (1.5 m/s) through the binary: `heat` prints the lift's line and
+/// its JSON the lift (power = drag × speed, Newton's P = F·v; time in the brake ≥ the 25 m fins'
+/// length over the speed, the vehicle magnets' own length adding to it); without the lift block
+/// the steady peak is lower (its heat enters the duty cycle) and the magnets, exposed for a
+/// shorter time, warm less. The judged magnet temperature is the input plus the mean rise.
+#[test]
+fn tower_lift_pass_through_the_binary() {
+    let tower = shipped()
+        .into_iter()
+        .find(|p| p.to_string_lossy().contains("tower"))
+        .unwrap();
+    let heat = |path: &std::path::Path, json: bool| {
+        let mut c = Command::new(bin());
+        c.args(["heat", path.to_str().unwrap(), "--case", "full"]);
+        if json {
+            c.arg("--json");
+        }
+        let o = c.output().unwrap();
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8(o.stdout).unwrap()
+    };
+    let text = heat(&tower, false);
+    assert!(text.contains("lift pass at 1.50 m/s: peak drag"), "{text}");
+    let j: serde_json::Value = serde_json::from_str(&heat(&tower, true)).unwrap();
+    let c = &j["cases"][0];
+    let lift = &c["lift"];
+    let (drag, power) = (
+        lift["peak_drag_n"].as_f64().unwrap(),
+        lift["peak_power_w"].as_f64().unwrap(),
+    );
+    assert!(drag > 0.0 && (power - 1.5 * drag).abs() < 1e-9 * power);
+    assert!(lift["energy_j"].as_f64().unwrap() > 0.0);
+    assert!(lift["time_in_brake_s"].as_f64().unwrap() >= 25.0 / 1.5);
+    let rise = c["magnet_rise_mean_k"].as_f64().unwrap();
+    let judged = c["judged_magnet_temp_c"].as_f64().unwrap();
+    assert!((judged - c["magnet_temp_c"].as_f64().unwrap() - rise).abs() < 1e-9);
+
+    let yaml = std::fs::read_to_string(&tower).unwrap();
+    let without = yaml.replace("  lift:\n    speed: 1.5 m/s\n", "");
+    assert_ne!(without, yaml, "the demo's lift block");
+    let tmp = tempfile::tempdir().unwrap();
+    let p = tmp.path().join("tower-without-lift.yaml");
+    std::fs::write(&p, without).unwrap();
+    // The demo's limits file sits beside it.
+    let limits = tower.parent().unwrap().join("limits");
+    std::fs::create_dir(tmp.path().join("limits")).unwrap();
+    for e in std::fs::read_dir(limits).unwrap() {
+        let e = e.unwrap().path();
+        std::fs::copy(&e, tmp.path().join("limits").join(e.file_name().unwrap())).unwrap();
+    }
+    let k: serde_json::Value = serde_json::from_str(&heat(&p, true)).unwrap();
+    let d = &k["cases"][0];
+    assert!(d["lift"].is_null());
+    let peak = |v: &serde_json::Value| v["steady_peak_fin_temperature_c"].as_f64().unwrap();
+    assert!(peak(c) > peak(d) + 1.0, "{} vs {}", peak(c), peak(d));
+    assert!(rise > d["magnet_rise_mean_k"].as_f64().unwrap());
+}

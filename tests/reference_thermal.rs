@@ -5,7 +5,7 @@
 #![allow(clippy::unwrap_used, clippy::expect_used, clippy::panic)]
 
 use eddyzone::dynamics::BrakeTables;
-use eddyzone::scenario::{parse_str, Cycles, Duty, Mount, Scenario};
+use eddyzone::scenario::{parse_str, Cycles, Duty, LiftSpeed, MagnetExposure, Mount, Scenario};
 use eddyzone::thermal::sheet::SheetLoss;
 use eddyzone::thermal::{heat_case, pass, run_pass, HeatOptions};
 use std::path::Path;
@@ -131,6 +131,8 @@ fn duty_loop_matches_the_geometric_series() {
         cycles: Cycles::Count(60),
         ambient_c: amb,
         film_coefficient_w_m2_k: h_w,
+        lift: None,
+        magnets: MagnetExposure::default(),
     });
     let tables = BrakeTables::build(&s).unwrap();
     let case = &s.cases[0];
@@ -237,30 +239,38 @@ fn hot_fin_brakes_less_below_and_more_above_the_critical_speed() {
     assert!(hot < cold, "above critical: hot {hot} vs cold {cold}");
 }
 
-/// A lift pass after every drop (tower demo, 1 m/s): its heat enters the duty cycle, so the
-/// steady peak is higher than without it; power = drag × speed. The first law of the lift
-/// itself (∫ drag dx = heat in the fins) is checked in `thermal::lift`.
+/// A lift pass after every drop (tower demo, `duty.lift.speed: 1 m/s`): its heat enters the duty
+/// cycle, so the steady peak is higher than without it; power = drag × speed; the magnets face
+/// the fins for the lift's time in the brake too, so their estimated rise grows. The first law
+/// of the lift itself (∫ drag dx = heat in the fins) is checked in `thermal::lift`.
 #[test]
 fn lift_pass_heats_the_fins_and_reports_its_drag() {
-    let s = shipped("tower-catch-brake.yaml");
+    let mut s = shipped("tower-catch-brake.yaml");
+    if let Some(d) = s.duty.as_mut() {
+        d.lift = None;
+    }
     let tables = BrakeTables::build(&s).unwrap();
     let case = &s.cases[0];
     let plain = heat_case(&s, &tables, case, &HeatOptions::default()).unwrap();
-    let opts = HeatOptions {
-        lift_speed_m_s: Some(1.0),
-        ..HeatOptions::default()
-    };
-    let lifted = heat_case(&s, &tables, case, &opts).unwrap();
+    let mut lifted_s = s.clone();
+    if let Some(d) = lifted_s.duty.as_mut() {
+        d.lift = Some(LiftSpeed::Constant(1.0));
+    }
+    let lifted = heat_case(&lifted_s, &tables, case, &HeatOptions::default()).unwrap();
     let lift = lifted.lift.expect("a lift pass");
     assert!(lift.energy_j > 0.0 && lift.peak_drag_n > 0.0);
     assert!((lift.peak_power_w - lift.peak_drag_n * 1.0).abs() < 1e-12);
     eprintln!(
-        "lift 1 m/s: drag {:.0} N, heat {:.0} J, steady peak {:.2} vs {:.2} °C",
+        "lift 1 m/s: drag {:.0} N, heat {:.0} J, {:.1} s in the brake, steady peak {:.2} vs {:.2} °C",
         lift.peak_drag_n,
         lift.energy_j,
+        lift.time_in_brake_s,
         lifted.steady_peak_fin_temperature_c,
         plain.steady_peak_fin_temperature_c
     );
     assert!(lifted.steady_peak_fin_temperature_c > plain.steady_peak_fin_temperature_c);
     assert!(plain.lift.is_none());
+    let (rise, rise_lifted) = (plain.magnet_rise.unwrap(), lifted.magnet_rise.unwrap());
+    assert!(rise_lifted.mean_k > rise.mean_k);
+    assert!((lifted.judged_magnet_temp_c - case.magnet_temp_c - rise_lifted.mean_k).abs() < 1e-12);
 }

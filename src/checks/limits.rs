@@ -209,6 +209,9 @@ fn unevaluated(
 pub struct CaseTemperatures {
     /// Highest fin temperature over the pass or the duty cycle, °C.
     pub peak_fin_temperature_c: Option<f64>,
+    /// Magnet temperature to judge instead of the case's input (the input plus the magnets'
+    /// estimated warming by the fins over the duty), °C.
+    pub magnet_temp_c: Option<f64>,
 }
 
 /// The sides of a rider axis: (name of the check, whether it judges the negative side).
@@ -500,13 +503,14 @@ pub fn check_case(
             "°C",
         ));
     }
+    let magnet_c = temps.magnet_temp_c.unwrap_or(case.magnet_temp_c);
     if let Some(limit) = lim.max_magnet_temperature_c {
         rows.push(row(
             "magnet_temperature",
             None,
-            case.magnet_temp_c,
+            magnet_c,
             limit,
-            limit - case.magnet_temp_c,
+            limit - magnet_c,
             "°C",
         ));
     }
@@ -522,9 +526,9 @@ pub fn check_case(
         rows.push(row(
             "magnet_grade",
             None,
-            case.magnet_temp_c,
+            magnet_c,
             grade_limit,
-            grade_limit - case.magnet_temp_c,
+            grade_limit - magnet_c,
             "°C",
         ));
     }

@@ -38,7 +38,7 @@ pub mod field;
 pub mod fin_ends;
 pub mod layer;
 pub mod measured;
-mod quadrature;
+pub(crate) mod quadrature;
 pub mod table;
 pub mod uncertainty;
 

@@ -401,7 +401,7 @@ pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> 
 /// Figure 5b: the highest fin temperature (°C) right after each pass against the cycle number,
 /// per case, with the fin-temperature limit. None without a duty block.
 pub fn fin_temperature_cycles(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> {
-    s.duty?;
+    s.duty.as_ref()?;
     let series: Vec<Series> = heats
         .iter()
         .enumerate()

@@ -253,7 +253,7 @@ fn heating_summary(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
 /// The Heating section: per case the duty-cycle summary and a table of its fins.
 fn heating_section(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
     out.push_str("<h2 id=\"heating\">Heating</h2>\n");
-    let basis = match s.duty {
+    let basis = match &s.duty {
         Some(d) => {
             let until = match d.cycles {
                 crate::scenario::Cycles::Count(n) => format!("for {n} passes"),
@@ -323,6 +323,23 @@ fn heating_section(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
             );
         }
         out.push_str("</table>\n");
+        if let Some(r) = h.magnet_rise {
+            let _ = writeln!(
+                out,
+                "<p>Magnets warmed by the fins across the gap: {} K on average over the duty \
+                 (bound {} K); judged at {} °C.</p>",
+                num(Some(r.mean_k), 1),
+                num(Some(r.bound_k), 1),
+                num(Some(h.judged_magnet_temp_c), 1)
+            );
+        }
+        if let Some(l) = &h.lift {
+            let _ = writeln!(
+                out,
+                "<p>{}.</p>",
+                escape(&crate::report::terminal::lift_line(l))
+            );
+        }
         for w in &h.warnings {
             let _ = writeln!(out, "<p class=\"warning\">Warning: {}</p>", escape(w));
         }

@@ -80,6 +80,8 @@ pub struct HeatCaseJson<'a> {
     magnet_temp_c: f64,
     magnet_rise_mean_k: Option<f64>,
     magnet_rise_bound_k: Option<f64>,
+    judged_magnet_temp_c: f64,
+    lift: Option<crate::thermal::lift::LiftPass>,
     cycles: &'a [crate::thermal::CycleRow],
     warnings: &'a [String],
 }
@@ -89,7 +91,7 @@ pub struct HeatCaseJson<'a> {
 pub struct HeatJson<'a> {
     version: &'a str,
     scenario: &'a str,
-    duty: Option<crate::scenario::Duty>,
+    duty: Option<&'a crate::scenario::Duty>,
     note: Option<&'a str>,
     cases: Vec<HeatCaseJson<'a>>,
 }
@@ -100,7 +102,7 @@ impl<'a> HeatJson<'a> {
         HeatJson {
             version: VERSION,
             scenario: &s.name,
-            duty: s.duty,
+            duty: s.duty.as_ref(),
             note: s
                 .duty
                 .is_none()
@@ -136,6 +138,8 @@ impl<'a> HeatJson<'a> {
                     magnet_temp_c: h.magnet_temp_c,
                     magnet_rise_mean_k: h.magnet_rise.map(|r| r.mean_k),
                     magnet_rise_bound_k: h.magnet_rise.map(|r| r.bound_k),
+                    judged_magnet_temp_c: h.judged_magnet_temp_c,
+                    lift: h.lift,
                     cycles: &h.cycles,
                     warnings: &h.warnings,
                 })

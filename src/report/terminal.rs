@@ -242,10 +242,14 @@ pub fn heat_text(s: &Scenario, heats: &[CaseHeat], warnings: &[String]) -> Strin
             outln!(
                 out,
                 "  magnets warmed by the fins across the gap: {:.1} K on average over the duty \
-                 (bound {:.1} K)",
+                 (bound {:.1} K); judged at {:.1} °C",
                 r.mean_k,
-                r.bound_k
+                r.bound_k,
+                h.judged_magnet_temp_c
             );
+        }
+        if let Some(l) = &h.lift {
+            outln!(out, "  {}", lift_line(l));
         }
         let mut t = Table::new(&[
             "cycle",
@@ -303,6 +307,23 @@ pub fn heat_text(s: &Scenario, heats: &[CaseHeat], warnings: &[String]) -> Strin
         outln!(out, "warning: {w}");
     }
     out
+}
+
+/// One line on a lift pass: its speeds, the drag and power the lift must supply, the heat.
+pub fn lift_line(l: &crate::thermal::lift::LiftPass) -> String {
+    let speed = if l.min_speed_m_s == l.max_speed_m_s {
+        format!("{:.2} m/s", l.min_speed_m_s)
+    } else {
+        format!("{:.2}–{:.2} m/s", l.min_speed_m_s, l.max_speed_m_s)
+    };
+    format!(
+        "lift pass at {speed}: peak drag {:.0} N, peak power {:.1} kW the lift must supply, \
+         {:.1} kJ into the fins, {:.1} s in the brake",
+        l.peak_drag_n,
+        l.peak_power_w / 1e3,
+        l.energy_j / 1e3,
+        l.time_in_brake_s
+    )
 }
 
 /// The end of the `heat` document: one row per case and the hottest fin of all.

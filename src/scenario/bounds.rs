@@ -58,6 +58,9 @@ pub const MAX_REPEAT: u32 = 1000;
 pub const MAX_TIME_LIMIT_S: f64 = 3600.0;
 /// Most dispatches of a duty cycle.
 pub const MAX_CYCLES: u32 = 10_000;
+
+/// Most points of a lift speed profile (project bound: a lift's speed changes a few times).
+pub const MAX_LIFT_POINTS: usize = 1000;
 /// Most cases (listed and generated) of one scenario.
 pub const MAX_CASES: usize = 10_000;
 /// Most fin × magnet pairs summed over the cases (each is evaluated at every step of a run).

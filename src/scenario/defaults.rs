@@ -85,6 +85,19 @@ pub const ROLLBACK_CLEARANCE_M: f64 = 0.01;
 /// choice: ends a duty loop that does not settle).
 pub const DUTY_MAX_CYCLES: u32 = 1000;
 
+/// Inputs of the magnets' warming by the fins across the gap without `duty.magnets` (common
+/// practice, not measured): forced convection in a narrow moving gap 25 W/(m²·K), still air on
+/// the magnet face between dispatches 10 W/(m²·K), rolled aluminium or copper fin face
+/// emissivity 0.1, coated or painted magnet face 0.8; the estimated mean rise is added to the
+/// magnet temperature the checks judge.
+pub const MAGNET_EXPOSURE: super::MagnetExposure = super::MagnetExposure {
+    gap_film_w_m2_k: 25.0,
+    air_film_w_m2_k: 10.0,
+    fin_emissivity: 0.1,
+    magnet_emissivity: 0.8,
+    add_to_magnet_temperature: true,
+};
+
 /// Smallest gap between planned modules without `plan.min_spacing`, m (project convention:
 /// modules may touch). The slot pitch defaults to module length plus this spacing.
 pub const PLAN_MIN_SPACING_M: f64 = 0.0;

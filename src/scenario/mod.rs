@@ -631,7 +631,7 @@ pub enum Cycles {
 }
 
 /// Repeated dispatches.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Duty {
     /// s.
     pub interval_s: f64,
@@ -641,6 +641,53 @@ pub struct Duty {
     pub ambient_c: f64,
     /// W/(m²·K), on both faces.
     pub film_coefficient_w_m2_k: f64,
+    /// The lift (return) pass after every dispatch (None: none).
+    pub lift: Option<LiftSpeed>,
+    /// The magnets' warming by the fins across the gap.
+    pub magnets: MagnetExposure,
+}
+
+/// Speed of the lift pass: the vehicle hauled back through the brake after a dispatch.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum LiftSpeed {
+    /// Constant speed, m/s.
+    Constant(f64),
+    /// `(front position m, speed m/s)` points, piecewise linear in position and held beyond the
+    /// first and last points; speeds positive, positions increasing.
+    Profile(Vec<(f64, f64)>),
+}
+
+impl LiftSpeed {
+    /// The lift speed with the vehicle front at `x_m`, m/s.
+    pub fn at(&self, x_m: f64) -> f64 {
+        match self {
+            LiftSpeed::Constant(v) => *v,
+            LiftSpeed::Profile(p) => crate::numeric::interp_clamped(p, x_m),
+        }
+    }
+}
+
+/// Inputs of the magnets' warming by the hot fins across the gap (defaults in
+/// [`defaults::MAGNET_EXPOSURE`], common practice).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct MagnetExposure {
+    /// Film coefficient across the gap while the fin passes, W/(m²·K).
+    pub gap_film_w_m2_k: f64,
+    /// Film coefficient from the magnet face to the air between dispatches, W/(m²·K).
+    pub air_film_w_m2_k: f64,
+    /// Emissivity of the fin face.
+    pub fin_emissivity: f64,
+    /// Emissivity of the magnet face.
+    pub magnet_emissivity: f64,
+    /// Add the estimated mean rise to the magnet temperature the checks judge.
+    pub add_to_magnet_temperature: bool,
+}
+
+impl Default for MagnetExposure {
+    fn default() -> Self {
+        defaults::MAGNET_EXPOSURE
+    }
 }
 
 /// The layout search input.

@@ -726,6 +726,52 @@ pub struct RawDuty {
     #[serde(skip_serializing_if = "Option::is_none")]
     #[schemars(with = "Option<u32>")]
     pub max_cycles: Option<Spanned<u32>>,
+    /// The vehicle hauled back through the brake after every dispatch (a tower's lift).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub lift: Option<RawLift>,
+    /// The magnets' warming by the hot fins across the gap.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub magnets: Option<RawDutyMagnets>,
+}
+
+/// `duty.lift:` — a constant `speed` or a `profile` of `[front position, speed]` points.
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct RawLift {
+    /// Constant lift speed.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Speed>")]
+    pub speed: Option<Q>,
+    /// `[front position, speed]` points, piecewise linear in position (held at the ends).
+    #[serde(skip_serializing_if = "Option::is_none", serialize_with = "opt_pairs")]
+    #[schemars(with = "Option<Vec<(k::Length, k::Speed)>>")]
+    pub profile: Option<Vec<Vec<Q>>>,
+}
+
+/// `duty.magnets:` — inputs of the magnets' warming across the gap (defaults: common practice).
+#[derive(Debug, Serialize, Deserialize, JsonSchema)]
+#[serde(deny_unknown_fields)]
+pub struct RawDutyMagnets {
+    /// Film coefficient across the gap while the fin passes (default 25 W/(m²·K)).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::HeatTransfer>")]
+    pub gap_film_coefficient: Option<Q>,
+    /// Film coefficient from the magnet face to the air between dispatches (default 10).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::HeatTransfer>")]
+    pub air_film_coefficient: Option<Q>,
+    /// Emissivity of the fin face (default 0.1).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
+    pub fin_emissivity: Option<Q>,
+    /// Emissivity of the magnet face (default 0.8).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Ratio>")]
+    pub magnet_emissivity: Option<Q>,
+    /// Add the estimated mean rise to the magnet temperature the grade and magnet-temperature
+    /// checks judge (default true).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub add_to_magnet_temperature: Option<bool>,
 }
 
 /// `cycles:` — a count or `until_steady`.

@@ -671,6 +671,53 @@ impl Writer<'_> {
                 d.film_coefficient_w_m2_k,
             ),
             max_cycles,
+            lift: d.lift.as_ref().map(|l| match l {
+                LiftSpeed::Constant(v) => RawLift {
+                    speed: Some(self.q("duty.lift.speed", Kind::Speed, *v)),
+                    profile: None,
+                },
+                LiftSpeed::Profile(p) => RawLift {
+                    speed: None,
+                    profile: Some(
+                        p.iter()
+                            .enumerate()
+                            .map(|(i, &pt)| {
+                                self.pair(
+                                    &format!("duty.lift.profile[{i}]"),
+                                    [Kind::Length, Kind::Speed],
+                                    pt,
+                                )
+                            })
+                            .collect(),
+                    ),
+                },
+            }),
+            magnets: (d.magnets != defaults::MAGNET_EXPOSURE).then(|| {
+                let m = &d.magnets;
+                RawDutyMagnets {
+                    gap_film_coefficient: Some(self.q(
+                        "duty.magnets.gap_film_coefficient",
+                        Kind::HeatTransfer,
+                        m.gap_film_w_m2_k,
+                    )),
+                    air_film_coefficient: Some(self.q(
+                        "duty.magnets.air_film_coefficient",
+                        Kind::HeatTransfer,
+                        m.air_film_w_m2_k,
+                    )),
+                    fin_emissivity: Some(self.q(
+                        "duty.magnets.fin_emissivity",
+                        Kind::Ratio,
+                        m.fin_emissivity,
+                    )),
+                    magnet_emissivity: Some(self.q(
+                        "duty.magnets.magnet_emissivity",
+                        Kind::Ratio,
+                        m.magnet_emissivity,
+                    )),
+                    add_to_magnet_temperature: Some(m.add_to_magnet_temperature),
+                }
+            }),
         }
     }
 

@@ -376,17 +376,26 @@ impl Study {
                 .iter()
                 .zip(heat.iter().zip(runs.iter().zip(&steady_runs)))
                 .map(|(c, (h, (first, steady)))| {
-                    let at = |t: f64| CaseTemperatures {
+                    let at = |t: f64, magnet_c: Option<f64>| CaseTemperatures {
                         peak_fin_temperature_c: judged.then_some(t),
+                        magnet_temp_c: magnet_c,
                     };
                     combine_states(&[
                         (
                             JudgedState::First,
-                            check_case(s, c, first, at(h.first_peak_fin_temperature_c)),
+                            check_case(s, c, first, at(h.first_peak_fin_temperature_c, None)),
                         ),
                         (
                             JudgedState::Steady,
-                            check_case(s, c, steady, at(h.steady_peak_fin_temperature_c)),
+                            check_case(
+                                s,
+                                c,
+                                steady,
+                                at(
+                                    h.steady_peak_fin_temperature_c,
+                                    Some(h.judged_magnet_temp_c),
+                                ),
+                            ),
                         ),
                     ])
                 })
@@ -486,6 +495,7 @@ pub fn judged_temperatures(scenario: &Scenario, heat: &[CaseHeat]) -> Vec<CaseTe
                 .find(|h| h.case == c.name)
                 .filter(|_| judged)
                 .map(|h| h.steady_peak_fin_temperature_c),
+            magnet_temp_c: None,
         })
         .collect()
 }

@@ -23,31 +23,9 @@ pub const STEFAN_BOLTZMANN_W_M2_K4: f64 = 5.670_374_419e-8;
 /// Kelvin offset of the Celsius scale.
 const KELVIN: f64 = 273.15;
 
-/// Inputs of the magnet estimate (defaults: common practice, not measured).
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct MagnetExposure {
-    /// Film coefficient across the gap while the fin passes, W/(m²·K) (default 25: forced
-    /// convection in a narrow moving gap, common practice).
-    pub gap_film_w_m2_k: f64,
-    /// Film coefficient from the magnet face to the air between dispatches, W/(m²·K) (default
-    /// 10: still air, common practice).
-    pub air_film_w_m2_k: f64,
-    /// Emissivity of the fin face (default 0.1: rolled aluminium or copper, common practice).
-    pub fin_emissivity: f64,
-    /// Emissivity of the magnet face (default 0.8: coated or painted, common practice).
-    pub magnet_emissivity: f64,
-}
-
-impl Default for MagnetExposure {
-    fn default() -> Self {
-        Self {
-            gap_film_w_m2_k: 25.0,
-            air_film_w_m2_k: 10.0,
-            fin_emissivity: 0.1,
-            magnet_emissivity: 0.8,
-        }
-    }
-}
+/// Inputs of the magnet estimate (the scenario's `duty.magnets`; defaults: common practice, not
+/// measured, see [`crate::scenario::defaults::MAGNET_EXPOSURE`]).
+pub use crate::scenario::MagnetExposure;
 
 /// The estimate.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]

@@ -45,14 +45,6 @@ pub struct HeatOptions {
     /// The fin temperatures set the conductivity (default true). Off, every pass runs at the
     /// case's fin temperature and only the bookkeeping heats and cools (for checks of the loop).
     pub coupling: bool,
-    /// Inputs of the magnets' warming by the fin across the gap (with a duty block).
-    pub magnet: magnet::MagnetExposure,
-    /// Add the estimated mean magnet rise to the case's magnet temperature for the grade check
-    /// (default false: the magnet temperature stays the input).
-    pub magnet_feedback: bool,
-    /// Haul the vehicle back through the brake at this constant speed after every pass (a
-    /// tower's lift), m/s (default None: no lift pass).
-    pub lift_speed_m_s: Option<f64>,
 }
 
 impl Default for HeatOptions {
@@ -61,9 +53,6 @@ impl Default for HeatOptions {
             cell_m: DEFAULT_CELL_M,
             sample_dt_s: 5e-3,
             coupling: true,
-            magnet: magnet::MagnetExposure::default(),
-            magnet_feedback: false,
-            lift_speed_m_s: None,
         }
     }
 }
@@ -194,10 +183,13 @@ pub struct CaseHeat {
     pub track_profiles: Vec<TrackProfile>,
     /// Magnet temperature of the case, °C (an input).
     pub magnet_temp_c: f64,
+    /// Magnet temperature the checks judge at the duty's steady state: the input plus the
+    /// estimated mean rise when `duty.magnets.add_to_magnet_temperature` (the default), °C.
+    pub judged_magnet_temp_c: f64,
     /// Estimated warming of the magnets by the hot fins across the gap over the duty (None
     /// without a duty block).
     pub magnet_rise: Option<magnet::MagnetRise>,
-    /// The last lift pass (None without a lift speed).
+    /// The last lift pass (None without `duty.lift`).
     pub lift: Option<lift::LiftPass>,
     /// Warnings (magnets above their grade limit, no steady state within the cap, ...).
     pub warnings: Vec<String>,
@@ -243,7 +235,7 @@ pub fn heat_case(
             options.sample_dt_s
         )));
     }
-    let duty = scenario.duty;
+    let duty = scenario.duty.as_ref();
     let (max_cycles, stop_at_steady) = match duty.map(|d| d.cycles) {
         None => (1, false),
         Some(Cycles::Count(n)) => (n.max(1), false),
@@ -324,8 +316,14 @@ pub fn heat_case(
             heat.fins.iter().map(|f| f.end.clone()).collect(),
         );
         last = Some(heat);
-        if let Some(v) = options.lift_speed_m_s {
-            lift_pass = Some(lift::apply_lift(scenario, tables, case, &mut states, v)?);
+        if let Some(speed) = duty.and_then(|d| d.lift.as_ref()) {
+            lift_pass = Some(lift::apply_lift(
+                scenario,
+                tables,
+                case,
+                &mut states,
+                speed,
+            )?);
         }
         if stop_at_steady && case_steady.is_some() {
             break;
@@ -402,19 +400,18 @@ pub fn heat_case(
         .collect();
     let last_row = &cycles[cycles.len() - 1];
     let magnet_rise = match (duty, last.run.time_in_zone_s) {
-        (Some(d), Some(exposed_s)) => options.magnet.rise(
+        (Some(d), Some(exposed_s)) => d.magnets.rise(
             last_row.peak_fin_temperature_c,
             d.ambient_c,
-            exposed_s,
+            exposed_s + lift_pass.map_or(0.0, |l| l.time_in_brake_s),
             d.interval_s,
         ),
         _ => None,
     };
     let magnet_c = case.magnet_temp_c
-        + if options.magnet_feedback {
-            magnet_rise.map_or(0.0, |r| r.mean_k)
-        } else {
-            0.0
+        + match (duty, magnet_rise) {
+            (Some(d), Some(r)) if d.magnets.add_to_magnet_temperature => r.mean_k,
+            _ => 0.0,
         };
     for sec in &scenario.sections {
         if let Some(g) = sec.grade {
@@ -450,6 +447,7 @@ pub fn heat_case(
         fins,
         track_profiles,
         magnet_temp_c: case.magnet_temp_c,
+        judged_magnet_temp_c: magnet_c,
         magnet_rise,
         lift: lift_pass,
         warnings,

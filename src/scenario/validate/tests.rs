@@ -313,3 +313,63 @@ fn grades_keep_their_written_name() {
         assert_eq!(MagnetGrade::parse(bad), None, "{bad}");
     }
 }
+
+/// `duty.lift` and `duty.magnets`: one of `speed` and `profile`, positive speeds, increasing
+/// positions, emissivities in (0, 1], each error at its line:column and path; a valid block
+/// gives the documented defaults for what it leaves out.
+#[test]
+fn duty_lift_and_magnet_rules() {
+    let base = format!(
+        "{}duty: {{ interval: 60 s, film_coefficient: 20 W/(m^2*K), ",
+        one_section()
+    );
+    let t = format!("{base}lift: {{ speed: -1 m/s }} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.lift.speed");
+    assert_eq!(i[0].location, Some(line_col(&t, "-1 m/s")));
+
+    let t = format!("{base}lift: {{ speed: 1 m/s, profile: [[0 m, 1 m/s]] }} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.lift");
+    assert!(i[0].message.contains("not both"), "{}", i[0].message);
+
+    let t = format!("{base}lift: {{ profile: [[3 m, 1 m/s], [2 m, 2 m/s]] }} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.lift.profile[1][0]");
+    assert_eq!(i[0].location, Some(line_col(&t, "2 m, 2 m/s")));
+
+    let t = format!("{base}lift: {{ profile: [[3 m, 0 m/s]] }} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.lift.profile[0][1]");
+
+    let t = format!("{base}lift: {{}} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.lift");
+    assert!(i[0].message.contains("speed"), "{}", i[0].message);
+
+    let t = format!("{base}magnets: {{ fin_emissivity: 1.5 }} }}\n");
+    let i = issues(&t);
+    assert_eq!(i[0].path, "duty.magnets.fin_emissivity");
+    assert_eq!(i[0].location, Some(line_col(&t, "1.5")));
+
+    let t = format!(
+        "{base}lift: {{ profile: [[0 m, 0.5 m/s], [20 m, 2 m/s]] }}, \
+         magnets: {{ magnet_emissivity: 0.6, add_to_magnet_temperature: false }} }}\n"
+    );
+    let s = parse_str(&t, "t.yaml", None).unwrap();
+    let d = s.duty.unwrap();
+    assert_eq!(
+        d.lift,
+        Some(crate::scenario::LiftSpeed::Profile(vec![
+            (0.0, 0.5),
+            (20.0, 2.0)
+        ]))
+    );
+    assert_eq!(d.magnets.magnet_emissivity, 0.6);
+    assert!(!d.magnets.add_to_magnet_temperature);
+    assert_eq!(
+        d.magnets.fin_emissivity,
+        defaults::MAGNET_EXPOSURE.fin_emissivity
+    );
+    assert_eq!(d.magnets.gap_film_w_m2_k, 25.0);
+}
