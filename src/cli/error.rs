@@ -6,6 +6,7 @@ use eddyzone::report::OutputError;
 use eddyzone::scenario::validate::ScenarioError;
 use eddyzone::scenario::write::WriteError;
 use eddyzone::study::StudyError;
+use eddyzone::sweep::shard::ShardError;
 use eddyzone::sweep::SweepError;
 
 /// Exit code: everything passed.
@@ -40,6 +41,9 @@ pub enum Error {
     /// A sweep could not complete.
     #[error(transparent)]
     Sweep(#[from] SweepError),
+    /// Shards could not be made or merged.
+    #[error(transparent)]
+    Shard(#[from] ShardError),
 }
 
 impl From<serde_json::Error> for Error {
@@ -67,12 +71,19 @@ pub fn exit_code(e: &Error) -> i32 {
         | Error::Study(StudyError::SampleBudget { .. }) => EXIT_BAD_INPUT,
         Error::Study(_) | Error::Plan(PlanError::Study(_)) => EXIT_COMPUTATION,
         Error::Output(_) => EXIT_OUTPUT,
-        Error::Sweep(SweepError::NoSweep | SweepError::NoCase(_) | SweepError::Reread(_)) => {
-            EXIT_BAD_INPUT
-        }
+        Error::Sweep(e) | Error::Shard(ShardError::Sweep(e)) => sweep_code(e),
+        // Shard files that do not make one sweep, or a bad K/N.
+        Error::Shard(_) => EXIT_BAD_INPUT,
+    }
+}
+
+/// The exit code of a sweep error.
+fn sweep_code(e: &SweepError) -> i32 {
+    match e {
+        SweepError::NoSweep | SweepError::NoCase(_) | SweepError::Reread(_) => EXIT_BAD_INPUT,
         // A sample that is no valid scenario: the sweep block's draws reach outside the inputs.
-        Error::Sweep(SweepError::Write(WriteError::Reread(_))) => EXIT_BAD_INPUT,
-        Error::Sweep(SweepError::Write(_)) => EXIT_OUTPUT,
-        Error::Sweep(SweepError::Study(_) | SweepError::NoSamples) => EXIT_COMPUTATION,
+        SweepError::Write(WriteError::Reread(_)) => EXIT_BAD_INPUT,
+        SweepError::Write(_) => EXIT_OUTPUT,
+        SweepError::Study(_) | SweepError::NoSamples => EXIT_COMPUTATION,
     }
 }

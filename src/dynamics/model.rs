@@ -201,6 +201,14 @@ impl TableCache {
         self.entries.lock().map_or(0, |e| e.len())
     }
 
+    /// The designs of the tables held: one opaque identity per table, equal for equal designs
+    /// (a sweep's shards report theirs, and their union counts the whole sweep's tables).
+    pub fn designs(&self) -> Vec<[u64; 9]> {
+        self.entries
+            .lock()
+            .map_or_else(|_| Vec::new(), |e| e.iter().map(|c| c.key).collect())
+    }
+
     /// Whether it holds no table.
     pub fn is_empty(&self) -> bool {
         self.len() == 0

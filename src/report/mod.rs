@@ -14,10 +14,13 @@ pub mod html;
 pub mod json_out;
 /// Generic line charts rendered to PNG and SVG with an embedded font.
 pub mod plots;
-/// Plain-text tables for the terminal.
+/// Figures of a sweep: ECDF per check with its limit, tornado chart of sensitivities.
+pub mod sweep_figures;
+/// Outputs of a sweep: terminal summary, CSV and JSON.
 pub mod sweep_out;
 /// The documents the commands print on the terminal.
 pub mod terminal;
+/// Plain-text tables for the terminal.
 pub mod text;
 
 use std::io::Write;

@@ -13,6 +13,7 @@
 
 pub mod apply;
 pub mod sample;
+pub mod shard;
 pub mod stats;
 
 pub use sample::{Target, Variable};
@@ -24,7 +25,7 @@ use crate::scenario::write::{to_yaml, WriteError};
 use crate::scenario::{parse_str, Scenario};
 use crate::study::{JudgeOptions, Progress, Silent, Study, StudyError, TableCache};
 use rayon::prelude::*;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use stats::{proportion, spearman, Proportion, Spread};
 
 /// Confidence level of the failure-probability intervals.
@@ -150,61 +151,175 @@ pub struct SweepResult {
     pub tables: usize,
 }
 
-/// Runs the sweep of `scenario` (its `sweep:` block) with every case judged by `options`.
-pub fn run_sweep(
-    scenario: &Scenario,
-    options: &JudgeOptions,
-    progress: &dyn Progress,
-) -> Result<SweepResult, SweepError> {
+/// The sample design of a sweep, drawn whole from its seed: the variables, every sample's
+/// values and the one speed every force table reaches (that of all samples together). A shard
+/// draws the same design and judges a slice of it, so the shards' union is the whole sweep.
+#[derive(Debug, Clone)]
+pub struct Design {
+    /// The sampled variables.
+    pub variables: Vec<Variable>,
+    /// One row per sample, one value per variable.
+    pub values: Vec<Vec<f64>>,
+    /// The speed every table reaches, m/s.
+    pub table_speed_m_s: f64,
+}
+
+/// Draws the design of `scenario`'s `sweep:` block.
+pub fn design(scenario: &Scenario) -> Result<Design, SweepError> {
     let sweep = scenario.sweep.as_ref().ok_or(SweepError::NoSweep)?;
     let base_case = apply::base_case(scenario, sweep)?;
-    let vars = sample::variables(scenario, sweep);
-    let values = sample::sample_values(sweep, &vars);
+    let variables = sample::variables(scenario, sweep);
+    let values = sample::sample_values(sweep, &variables);
     let cases: Vec<_> = values
         .iter()
         .enumerate()
-        .map(|(i, v)| apply::sample_case(base_case, &vars, v, i))
+        .map(|(i, v)| apply::sample_case(base_case, &variables, v, i))
         .collect();
-    // One speed for every table: that of all samples together.
-    let floor = table_speed_m_s(&Scenario {
-        cases: cases.clone(),
+    let table_speed_m_s = table_speed_m_s(&Scenario {
+        cases,
         ..scenario.clone()
     });
-    let cache = TableCache::default();
+    Ok(Design {
+        variables,
+        values,
+        table_speed_m_s,
+    })
+}
+
+/// One row of a sample's verdict, as the sample leaves its run.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct JudgedRow {
+    /// `check`, `check.axis` or `check.axis.state`.
+    pub key: String,
+    /// Unit of value and limit.
+    pub unit: String,
+    /// The limit.
+    pub limit: Option<f64>,
+    /// The value found.
+    pub value: Option<f64>,
+    /// Margin to the limit.
+    pub margin: Option<f64>,
+    /// Passed.
+    pub pass: bool,
+}
+
+/// One judged sample before the columns of all samples are known: what a shard file holds.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct JudgedSample {
+    /// 0-based sample number.
+    pub index: usize,
+    /// One value per sweep variable.
+    pub inputs: Vec<f64>,
+    /// Every check passed.
+    pub pass: bool,
+    /// Exit speed, m/s.
+    pub exit_speed_m_s: Option<f64>,
+    /// Peak deceleration, m/s².
+    pub peak_decel_m_s2: Option<f64>,
+    /// Time in the zone, s.
+    pub time_in_zone_s: Option<f64>,
+    /// Its verdict's rows, in order.
+    pub rows: Vec<JudgedRow>,
+}
+
+/// Judges the samples `range` of `design` (tables from `cache`, each reaching the design's
+/// common speed).
+pub fn judge_samples(
+    scenario: &Scenario,
+    design: &Design,
+    range: std::ops::Range<usize>,
+    cache: &TableCache,
+    options: &JudgeOptions,
+    progress: &dyn Progress,
+) -> Result<Vec<JudgedSample>, SweepError> {
+    let sweep = scenario.sweep.as_ref().ok_or(SweepError::NoSweep)?;
+    let base_case = apply::base_case(scenario, sweep)?;
+    let vars = &design.variables;
+    let values = design.values.get(range.clone()).unwrap_or(&[]);
     progress.stage("sweeping samples", Some(values.len() as u64));
-    let judged: Vec<(SampleResult, Verdict)> = cases
-        .into_par_iter()
-        .zip(values.par_iter())
+    let judged = values
+        .par_iter()
         .enumerate()
-        .map(|(i, (case, v))| {
-            let s = apply::sample_scenario(scenario, &vars, v, case);
-            let study = Study::with_cache_reaching(s, &cache, floor)?;
+        .map(|(k, v)| {
+            let i = range.start + k;
+            let case = apply::sample_case(base_case, vars, v, i);
+            let s = apply::sample_scenario(scenario, vars, v, case);
+            let study = Study::with_cache_reaching(s, cache, design.table_speed_m_s)?;
             let j = study.judge(options, &Silent)?;
             progress.advance(1);
             let run = j.runs.first();
-            let sample = SampleResult {
+            let rows = j
+                .verdict
+                .cases
+                .iter()
+                .flat_map(|c| &c.checks)
+                .map(|r| JudgedRow {
+                    key: row_key(r),
+                    unit: r.unit.clone(),
+                    limit: r.limit,
+                    value: r.value,
+                    margin: r.margin,
+                    pass: r.pass,
+                })
+                .collect();
+            Ok(JudgedSample {
                 index: i,
                 inputs: v.clone(),
                 pass: j.verdict.pass,
                 exit_speed_m_s: run.and_then(|r| r.exit_speed_m_s),
                 peak_decel_m_s2: run.and_then(|r| r.peak_decel_m_s2),
                 time_in_zone_s: run.and_then(|r| r.time_in_zone_s),
-                checks: Vec::new(),
-                score: 0.0,
-            };
-            Ok((sample, j.verdict))
+                rows,
+            })
         })
         .collect::<Result<_, StudyError>>()?;
+    Ok(judged)
+}
+
+/// Runs the sweep of `scenario` (its `sweep:` block) with every case judged by `options`.
+pub fn run_sweep(
+    scenario: &Scenario,
+    options: &JudgeOptions,
+    progress: &dyn Progress,
+) -> Result<SweepResult, SweepError> {
+    let design = design(scenario)?;
+    let cache = TableCache::default();
+    let all = 0..design.values.len();
+    let judged = judge_samples(scenario, &design, all, &cache, options, progress)?;
+    assemble(scenario, &design, judged, cache.len(), options)
+}
+
+/// The result of a sweep from its judged samples (every sample of `design`, in order): the
+/// columns, statistics, the worst sample written and judged on its own. `tables` is the number
+/// of distinct force tables the samples used.
+pub fn assemble(
+    scenario: &Scenario,
+    design: &Design,
+    judged: Vec<JudgedSample>,
+    tables: usize,
+    options: &JudgeOptions,
+) -> Result<SweepResult, SweepError> {
+    let sweep = scenario.sweep.as_ref().ok_or(SweepError::NoSweep)?;
+    let base_case = apply::base_case(scenario, sweep)?;
+    let vars = &design.variables;
     let keys = check_keys(&judged);
     let samples: Vec<SampleResult> = judged
         .into_iter()
-        .map(|(mut s, v)| {
-            s.checks = sample_checks(&keys, &v);
-            s.score = score(&keys, &s.checks);
-            s
+        .map(|j| {
+            let checks = sample_checks(&keys, &j.rows);
+            SampleResult {
+                index: j.index,
+                inputs: j.inputs,
+                pass: j.pass,
+                exit_speed_m_s: j.exit_speed_m_s,
+                peak_decel_m_s2: j.peak_decel_m_s2,
+                time_in_zone_s: j.time_in_zone_s,
+                score: score(&keys, &checks),
+                checks,
+            }
         })
         .collect();
-    let summaries = summarise(&keys, &vars, &samples)?;
+    let summaries = summarise(&keys, vars, &samples)?;
     let failing = samples.iter().filter(|s| !s.pass).count();
     let any_failure =
         proportion(failing, samples.len(), CONFIDENCE).ok_or(SweepError::NoSamples)?;
@@ -212,11 +327,12 @@ pub fn run_sweep(
         .iter()
         .min_by(|a, b| a.score.total_cmp(&b.score).then(a.index.cmp(&b.index)))
         .map_or(0, |s| s.index);
+    let worst_values = design.values.get(worst).ok_or(SweepError::NoSamples)?;
     let worst_scenario = apply::sample_scenario(
         scenario,
-        &vars,
-        &values[worst],
-        apply::sample_case(base_case, &vars, &values[worst], worst),
+        vars,
+        worst_values,
+        apply::sample_case(base_case, vars, worst_values, worst),
     );
     let worst_yaml = to_yaml(&worst_scenario)?;
     let back = parse_str(&worst_yaml, "<worst sample>", None).map_err(SweepError::Reread)?;
@@ -226,7 +342,7 @@ pub fn run_sweep(
         case: sweep.case.clone(),
         method: sweep.method,
         seed: sweep.seed,
-        variables: vars,
+        variables: vars.clone(),
         checks: keys,
         samples,
         summaries,
@@ -234,7 +350,7 @@ pub fn run_sweep(
         worst,
         worst_yaml,
         worst_verdict,
-        tables: cache.len(),
+        tables,
     })
 }
 
@@ -251,43 +367,33 @@ fn row_key(r: &crate::checks::CheckRow) -> String {
 }
 
 /// Every check of the samples' verdicts, in order of first appearance.
-fn check_keys(judged: &[(SampleResult, Verdict)]) -> Vec<CheckKey> {
+fn check_keys(judged: &[JudgedSample]) -> Vec<CheckKey> {
     let mut out: Vec<CheckKey> = Vec::new();
-    for (_, v) in judged {
-        for r in v.cases.iter().flat_map(|c| &c.checks) {
-            let key = row_key(r);
-            if !out.iter().any(|k| k.key == key) {
-                out.push(CheckKey {
-                    key,
-                    unit: r.unit.clone(),
-                    limit: r.limit,
-                });
-            }
+    for r in judged.iter().flat_map(|j| &j.rows) {
+        if !out.iter().any(|k| k.key == r.key) {
+            out.push(CheckKey {
+                key: r.key.clone(),
+                unit: r.unit.clone(),
+                limit: r.limit,
+            });
         }
     }
     out
 }
 
-fn sample_checks(keys: &[CheckKey], v: &Verdict) -> Vec<SampleCheck> {
+fn sample_checks(keys: &[CheckKey], rows: &[JudgedRow]) -> Vec<SampleCheck> {
     keys.iter()
-        .map(|k| {
-            let row = v
-                .cases
-                .iter()
-                .flat_map(|c| &c.checks)
-                .find(|r| row_key(r) == k.key);
-            match row {
-                Some(r) => SampleCheck {
-                    value: r.value,
-                    margin: r.margin,
-                    pass: r.pass,
-                },
-                None => SampleCheck {
-                    value: None,
-                    margin: None,
-                    pass: false,
-                },
-            }
+        .map(|k| match rows.iter().find(|r| r.key == k.key) {
+            Some(r) => SampleCheck {
+                value: r.value,
+                margin: r.margin,
+                pass: r.pass,
+            },
+            None => SampleCheck {
+                value: None,
+                margin: None,
+                pass: false,
+            },
         })
         .collect()
 }

@@ -20,6 +20,7 @@
 //! [`PlotError::InvalidSize`].
 
 mod axis;
+pub mod bars;
 mod geom;
 mod glyphs;
 mod legend;
