@@ -12,6 +12,8 @@ pub mod folder;
 pub mod html;
 /// JSON documents printed by `--json`.
 pub mod json_out;
+/// Section loads (peak force, impulse, energy) as tables.
+pub mod loads_out;
 /// Generic line charts rendered to PNG and SVG with an embedded font.
 pub mod plots;
 /// Plain-text tables for the terminal.
