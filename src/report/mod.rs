@@ -4,6 +4,8 @@
 pub mod bundle;
 /// CSV writers: force–speed curves and run profiles.
 pub mod csv_out;
+/// Which cases the figures draw prominently (nominal, worst of a check).
+pub mod emphasis;
 /// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
 pub mod figures;
 /// Output folders written as a whole, under a lock.
