@@ -150,11 +150,26 @@ fn shipped() -> Vec<Scenario> {
 #[test]
 fn energy_residual_on_every_shipped_scenario() {
     // First law: kinetic + potential + dissipated stays equal to the initial energy. Tolerance:
-    // 1e-6 of the energy turned over (braking energy plus the kinetic energy at entry).
+    // 1e-6 of the energy turned over (braking energy plus the kinetic energy at entry). And the
+    // energies of the sections sum to the dissipated braking energy.
     for s in shipped() {
         let t = BrakeTables::build(&s).unwrap();
         for c in &s.cases {
-            let r = simulate_case(&s, &t, c, &RunOptions::default()).unwrap();
+            let with_loads = RunOptions {
+                section_loads: true,
+                ..RunOptions::default()
+            };
+            let r = simulate_case(&s, &t, c, &with_loads).unwrap();
+            // The sections' energies (quadrature of the continuous output) sum to the braking
+            // energy of the balance: tolerance 1e-7 of the braking energy.
+            let sections: f64 = r.sections.iter().map(|x| x.energy_j).sum();
+            assert!(
+                (sections - r.braking_energy_j).abs() <= 1e-7 * r.braking_energy_j,
+                "{} / {}: sections {sections} J vs braking {} J",
+                s.name,
+                c.name,
+                r.braking_energy_j
+            );
             let scale = r.braking_energy_j
                 + 0.5 * r.mass_kg * r.entry_speed_m_s.unwrap_or(0.0).powi(2)
                 + r.initial_energy_j.abs();
@@ -309,4 +324,79 @@ start: { position: 9 m, speed: 3 m/s }
     assert!(r.reversed, "{r:?}");
     assert_eq!(r.outcome, Outcome::RolledBack);
     assert!(r.exit_speed_m_s.unwrap() < 0.0);
+}
+
+#[test]
+fn section_loads_against_momentum_and_the_energy_balance() {
+    // Newton's second law on a level track without resistance: the only force along the track
+    // is the brakes', so the sections' impulses sum to the momentum change m·(v_exit − v0). The
+    // first law: the sections' energies sum to the braking energy of the run's energy balance
+    // (the integrator carries it in its state) and to the kinetic energy lost, ½m(v0² − v_exit²).
+    // The sections' integrals are 5-point Gauss–Legendre quadrature of the continuous output,
+    // independent of the integrator's state; tolerance 1e-8 of the quantity turned over (the
+    // solver's tolerances are 1e-10; measured 2e-10 for the impulse, 3e-11 for the energy).
+    let text = r#"
+name: two sections, level, no resistance
+vehicle:
+  mass: 600 kg
+  length: 4 m
+  fins:
+    - { name: fin, offset: 1 m, length: 2 m, height: 200 mm, thickness: 8 mm, material: copper-c11000 }
+sections:
+  - { name: A, start: 10 m, length: 1.5 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9,
+      remanence: 1.2 T, clearance: 6 mm, pole_height: 180 mm }
+  - { name: B, start: 13 m, length: 2 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 0.9,
+      remanence: 1.2 T, clearance: 9 mm, pole_height: 180 mm }
+start: { position: 5 m, speed: 25 m/s }
+resistance: { rolling: 0, drag_area: 0 m^2 }
+"#;
+    let s = scenario(text);
+    let t = BrakeTables::build(&s).unwrap();
+    let options = RunOptions {
+        section_loads: true,
+        ..RunOptions::default()
+    };
+    let r = simulate_case(&s, &t, &s.cases[0], &options).unwrap();
+    assert_eq!(r.outcome, Outcome::Cleared);
+    let (m, v0, v1) = (r.mass_kg, 25.0, r.exit_speed_m_s.unwrap());
+    assert!(
+        v1 < 0.9 * v0 && v1 > 0.0,
+        "exit {v1} m/s: the brakes must work"
+    );
+    assert_eq!(r.sections.len(), 2);
+    let impulse: f64 = r.sections.iter().map(|x| x.impulse_n_s).sum();
+    let dp = m * (v1 - v0);
+    let energy: f64 = r.sections.iter().map(|x| x.energy_j).sum();
+    assert!(
+        (impulse - dp).abs() < 1e-8 * dp.abs(),
+        "impulse {impulse} N·s vs momentum change {dp} N·s"
+    );
+    let dke = 0.5 * m * (v0 * v0 - v1 * v1);
+    assert!(
+        (energy - r.braking_energy_j).abs() < 1e-8 * r.braking_energy_j,
+        "sections {energy} J vs braking energy {} J",
+        r.braking_energy_j
+    );
+    assert!(
+        (energy - dke).abs() < 1e-8 * dke,
+        "sections {energy} J vs kinetic energy lost {dke} J"
+    );
+    // Each section took a share; no peak exceeds the run's peak brake force (sampled) by more
+    // than the sampling can miss (1 %).
+    let (a, b) = (&r.sections[0], &r.sections[1]);
+    assert!(a.energy_j > 0.0 && b.energy_j > 0.0 && a.impulse_n_s < 0.0 && b.impulse_n_s < 0.0);
+    for x in &r.sections {
+        assert!(x.peak_force_n <= 1.01 * r.peak_brake_force_n, "{x:?}");
+        let at = x.peak_force_position_m.unwrap();
+        let start = if x.section == "A" { 10.0 } else { 13.0 };
+        // The fin (1 m to 3 m behind the front) overlaps the section at the peak.
+        assert!(
+            at - 3.0 < start + 2.0 && at - 1.0 > start,
+            "{} peak at {at} m",
+            x.section
+        );
+    }
+    // Without the option the run carries no loads (and prints none).
+    let plain = simulate_case(&s, &t, &s.cases[0], &RunOptions::default()).unwrap();
+    assert!(plain.sections.is_empty());
 }

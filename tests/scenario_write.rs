@@ -180,12 +180,12 @@ fn plan_rebuilds_generated_cases_from_their_origin_data() {
     assert_eq!(
         n1,
         [
-            ("full", "P1"),
-            ("full", "P2"),
-            ("full", "P3"),
-            ("empty/hot-magnet", "P1"),
-            ("empty/hot-magnet", "P2"),
-            ("empty/hot-magnet", "P3")
+            ("full", "mod-1"),
+            ("full", "mod-2"),
+            ("full", "mod-3"),
+            ("empty/hot-magnet", "mod-1"),
+            ("empty/hot-magnet", "mod-2"),
+            ("empty/hot-magnet", "mod-3")
         ]
     );
     // The default backwards entry follows the new zone end (18 m + 3 slots of 1.5 m + 1 m),

@@ -41,6 +41,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
     let options = JudgeOptions {
         run: RunOptions {
             sampling: Sampling::Full,
+            section_loads: true,
             ..RunOptions::default()
         },
         heat: HeatDemand::Always,

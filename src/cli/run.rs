@@ -6,7 +6,7 @@ use clap::Args;
 use eddyzone::dynamics::{RunOptions, Sampling};
 use eddyzone::report::folder::{write_folder, Placement};
 use eddyzone::report::json_out::{pretty, RunJson};
-use eddyzone::report::{csv_out, terminal};
+use eddyzone::report::{csv_out, loads_out, terminal};
 use eddyzone::study::Study;
 use std::path::PathBuf;
 
@@ -19,6 +19,10 @@ pub struct RunArgs {
     /// Write one profile CSV per case into this folder.
     #[arg(long)]
     pub profile: Option<PathBuf>,
+    /// Print the loads of every section for every case (peak force, impulse, energy), not only
+    /// the largest over the cases.
+    #[arg(long)]
+    pub sections: bool,
     /// Profile sample interval in seconds.
     #[arg(long, default_value_t = 0.001)]
     pub dt: f64,
@@ -40,6 +44,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
         } else {
             Sampling::ZoneOnly
         },
+        section_loads: true,
         ..RunOptions::default()
     };
     let results = study.run(&options)?;
@@ -59,6 +64,7 @@ pub fn execute(a: &RunArgs) -> Result<i32, Error> {
             &results,
             &study.run_warnings(&results),
         ))?;
+        emit(&loads_out::loads_text(&results, a.sections))?;
     }
     Ok(EXIT_OK)
 }

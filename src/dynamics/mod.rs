@@ -211,6 +211,39 @@ pub struct FinHeat {
     pub end_temp_c: f64,
 }
 
+/// The load between one magnet section and the fins over a run: what its mounting (and the
+/// fins') must carry. Forces are on the vehicle along the track's +s; the section's mounting
+/// takes the opposite (a track section braking a vehicle moving in +s is pulled in +s).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SectionLoad {
+    /// Section name.
+    pub section: String,
+    /// Largest |force| over the run (five Gauss–Legendre nodes and both ends of every step), N.
+    pub peak_force_n: f64,
+    /// Time of the peak, s (None: no force).
+    pub peak_force_time_s: Option<f64>,
+    /// Vehicle front position at the peak, m (None: no force).
+    pub peak_force_position_m: Option<f64>,
+    /// Impulse ∫F dt of the force on the vehicle along +s, N·s (negative: braking motion in +s).
+    pub impulse_n_s: f64,
+    /// Energy the section's eddy currents dissipate, −∫F·v dt, J (≥ 0).
+    pub energy_j: f64,
+}
+
+impl SectionLoad {
+    /// No load yet on `section`.
+    pub fn zero(section: &Section) -> Self {
+        Self {
+            section: section.name.clone(),
+            peak_force_n: 0.0,
+            peak_force_time_s: None,
+            peak_force_position_m: None,
+            impulse_n_s: 0.0,
+            energy_j: 0.0,
+        }
+    }
+}
+
 /// The result of one case. Its `Serialize` is the case as `run --json` prints it: the fields
 /// below except the ones marked skipped, and `peak_decel_g` beside `peak_decel_m_s2`.
 #[derive(Debug, Clone, Serialize)]
@@ -269,6 +302,10 @@ pub struct RunResult {
     /// Per-fin heat.
     #[serde(skip)]
     pub fins: Vec<FinHeat>,
+    /// Per section (scenario order), its peak force, impulse and energy over the run; empty
+    /// unless [`RunOptions::section_loads`] asked for them.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub sections: Vec<SectionLoad>,
     /// Warnings (e.g. a measured curve left its range).
     pub warnings: Vec<String>,
     /// Samples (every dt and at events; inside the zone only unless full sampling was asked for).
@@ -321,6 +358,7 @@ impl RunResult {
             rhs_evaluations: 0,
             end_time_s: 0.0,
             fins: vec![],
+            sections: vec![],
             warnings: vec![],
             samples: vec![],
             trajectory: vec![],

@@ -6,6 +6,13 @@ use crate::scenario::{
     cases, Case, CaseOrigin, ForceSource, MagnetDesign, Mount, PlanSpec, Scenario, Section,
 };
 
+/// The name of the `i`-th (0-based) planned module: the plan module's name and its number from
+/// 1 along the track ("arrester-1", "arrester-2", …), so the planner's tables, the N−1 case names
+/// and `plan --write` all use the name the user gave the module.
+pub fn module_section_name(p: &PlanSpec, i: usize) -> String {
+    format!("{}-{}", p.module_name, i + 1)
+}
+
 /// The scenario of a candidate layout (see the module documentation).
 pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Scenario {
     let mods = modules_of(p, layout);
@@ -13,7 +20,7 @@ pub fn candidate_scenario(base: &Scenario, p: &PlanSpec, layout: &Layout) -> Sce
         .iter()
         .enumerate()
         .map(|(i, m)| Section {
-            name: format!("P{}", i + 1),
+            name: module_section_name(p, i),
             mount: Mount::Track { start_m: m.start_m },
             length_m: p.module_length_m,
             force: ForceSource::Model(MagnetDesign {

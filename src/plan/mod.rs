@@ -55,7 +55,7 @@ mod local;
 pub mod state;
 mod types;
 
-pub use candidate::{candidate_scenario, section_out_bases};
+pub use candidate::{candidate_scenario, module_section_name, section_out_bases};
 pub use eval::{relative_margin, worst_margin};
 pub use types::*;
 

@@ -59,7 +59,7 @@ pub fn report_bundle(
     source: &ReportSource<'_>,
 ) -> Result<ReportBundle, OutputError> {
     let s = study.scenario();
-    let figs = all_figures(s, &judged.runs, curves, &judged.heat);
+    let figs = all_figures(s, &judged.runs, curves, &judged.heat, &judged.verdict);
     let mut files = Vec::with_capacity(2 * figs.len() + judged.runs.len() + 2);
     let mut rendered = Vec::with_capacity(figs.len());
     for f in &figs {

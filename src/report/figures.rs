@@ -1,13 +1,18 @@
 //! The report's figures: [`Chart`] descriptions built from a scenario, its runs, its
 //! force–speed curves and its fin heat. Rendering is left to [`crate::report::plots`]; this module does no I/O.
 //!
-//! Every case keeps one colour in every figure: palette index = case index.
+//! With many cases only the nominal cases and the worst case of each check the figure shows are
+//! drawn in colour and named (see [`Emphasis`]); the others are thin light background lines
+//! under one legend row. A prominent case keeps its colour in every figure; limits are drawn in
+//! the reference style (dark grey dashed), which no case uses.
 
 use crate::checks::envelope::{sustained_curve, sustained_curve_below};
 use crate::checks::rider::rider_signals;
+use crate::checks::Verdict;
 use crate::curve::{CurvePoint, PairCurve};
 use crate::dynamics::RunResult;
-use crate::report::plots::{Band, Chart, RefLine, Series};
+use crate::report::emphasis::Emphasis;
+use crate::report::plots::{Band, Chart, RefLine, RefPath, Series};
 use crate::scenario::validate::track_span;
 use crate::scenario::{Axis, Scenario};
 use crate::thermal::CaseHeat;
@@ -48,6 +53,69 @@ fn base_name(name: &str) -> &str {
     }
 }
 
+/// The checks each figure shows (name prefixes of [`crate::checks::CheckRow::key`]).
+const SPEED_CHECKS: &[&str] = &["exit_speed", "stall", "stop", "rollback", "min_speed"];
+const FELT_CHECKS: &[&str] = &["peak_", "onset", "release"];
+const ENVELOPE_CHECKS: &[&str] = &["envelope"];
+const FIN_CHECKS: &[&str] = &["fin_temperature"];
+
+/// One line of one case (of one of its parts, e.g. a fin, when `part` is given).
+struct CaseLine {
+    case: String,
+    part: Option<String>,
+    points: Vec<(f64, f64)>,
+    dashed: bool,
+}
+
+/// The prominent lines (nominal cases and the worst of the checks named by `checks`, see
+/// [`Emphasis::label`]) as series, and the rest as background series named "N other cases" (per
+/// part: "N other cases · east-fin"). A case's parts after its first carry only the part name.
+fn case_series(em: &Emphasis, checks: &[&str], lines: Vec<CaseLine>) -> (Vec<Series>, Vec<Series>) {
+    let mut others: Vec<&str> = Vec::new();
+    for l in &lines {
+        if em.label(&l.case, checks).is_none() && !others.contains(&l.case.as_str()) {
+            others.push(&l.case);
+        }
+    }
+    let n_others = others.len();
+    let mut named: Vec<String> = Vec::new();
+    let (mut front, mut back) = (Vec::new(), Vec::new());
+    for l in &lines {
+        let label = em.label(&l.case, checks);
+        match (label, em.color(&l.case)) {
+            (Some(label), Some(color)) => {
+                let first = !named.contains(&l.case);
+                named.push(l.case.clone());
+                let name = match (&l.part, first) {
+                    // The part after the case's name, before the rows of what it is worst of.
+                    (Some(part), true) => match label.split_once('\n') {
+                        Some((head, rest)) => format!("{head} · {part}\n{rest}"),
+                        None => format!("{label} · {part}"),
+                    },
+                    (Some(part), false) => format!("{} · {part}", l.case),
+                    (None, _) => label,
+                };
+                front.push(Series {
+                    name,
+                    points: l.points.clone(),
+                    color,
+                    dashed: l.dashed,
+                });
+            }
+            _ => back.push(Series {
+                name: match &l.part {
+                    Some(part) => format!("{n_others} other cases · {part}"),
+                    None => format!("{n_others} other cases"),
+                },
+                points: l.points.clone(),
+                color: 0,
+                dashed: l.dashed,
+            }),
+        }
+    }
+    (front, back)
+}
+
 /// Index of the rider axis along the track (0 = x, 2 = z).
 fn track_axis_index(s: &Scenario) -> usize {
     match s.rider.track_axis {
@@ -83,17 +151,17 @@ pub fn track_element_bands(s: &Scenario) -> Vec<Band> {
 
 /// Figure 1: speed (m/s) against front position (m) for every case, with the magnet sections
 /// shaded and the exit-speed window of the limits.
-pub fn speed_position(s: &Scenario, runs: &[RunResult]) -> Chart {
-    let series = runs
+pub fn speed_position(s: &Scenario, runs: &[RunResult], em: &Emphasis) -> Chart {
+    let lines = runs
         .iter()
-        .enumerate()
-        .map(|(i, r)| Series {
-            name: r.case.clone(),
+        .map(|r| CaseLine {
+            case: r.case.clone(),
+            part: None,
             points: thin(r.samples.iter().map(|p| (p.s_m, p.v_m_s)).collect()),
-            color: i,
             dashed: false,
         })
         .collect();
+    let (series, background) = case_series(em, SPEED_CHECKS, lines);
     let mut y_bands = Vec::new();
     let mut h_lines = Vec::new();
     match (s.limits.exit_speed_min_m_s, s.limits.exit_speed_max_m_s) {
@@ -117,6 +185,7 @@ pub fn speed_position(s: &Scenario, runs: &[RunResult]) -> Chart {
         x_label: "vehicle front position (m)".into(),
         y_label: "speed (m/s)".into(),
         series,
+        background,
         x_bands: track_element_bands(s),
         y_bands,
         h_lines,
@@ -126,10 +195,11 @@ pub fn speed_position(s: &Scenario, runs: &[RunResult]) -> Chart {
 
 /// Figure 2: felt acceleration (g) along the track against time (s), raw dashed and filtered
 /// solid, with the peak limits of that rider axis.
-pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
+pub fn felt_acceleration(s: &Scenario, runs: &[RunResult], em: &Emphasis) -> Chart {
     let ax = track_axis_index(s);
-    let mut series = Vec::new();
-    for (i, r) in runs.iter().enumerate() {
+    let mut lines = Vec::new();
+    let mut raw = Vec::new();
+    for r in runs {
         let Ok(sig) = rider_signals(r, &s.rider) else {
             continue;
         };
@@ -142,25 +212,24 @@ pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
                     .collect(),
             )
         };
-        if sig.filter_applied {
-            series.push(Series {
-                name: format!("{} raw", r.case),
+        // The raw signal of a prominent case, as a light dashed line under its filtered one.
+        if sig.filter_applied && em.label(&r.case, FELT_CHECKS).is_some() {
+            raw.push(Series {
+                name: "raw (unfiltered) of the cases above".into(),
                 points: pts(&sig.raw[ax]),
-                color: i,
+                color: 0,
                 dashed: true,
             });
         }
-        series.push(Series {
-            name: if sig.filter_applied {
-                format!("{} filtered", r.case)
-            } else {
-                r.case.clone()
-            },
+        lines.push(CaseLine {
+            case: r.case.clone(),
+            part: None,
             points: pts(&sig.filtered[ax]),
-            color: i,
             dashed: false,
         });
     }
+    let (series, mut background) = case_series(em, FELT_CHECKS, lines);
+    background.extend(raw);
     let axis = s.rider.track_axis.name();
     let peak = s.limits.peak[ax];
     let mut h_lines = Vec::new();
@@ -184,6 +253,7 @@ pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
         x_label: "time (s)".into(),
         y_label: format!("felt acceleration {axis} (g)"),
         series,
+        background,
         h_lines,
         ..Chart::default()
     }
@@ -191,7 +261,7 @@ pub fn felt_acceleration(s: &Scenario, runs: &[RunResult]) -> Chart {
 
 /// Figure 3: sustained acceleration magnitude (g) against duration (s) for every case, on the
 /// braking side of the track axis, with the limit envelope's points as a series.
-pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
+pub fn sustained(s: &Scenario, runs: &[RunResult], em: &Emphasis) -> Chart {
     let ax = track_axis_index(s);
     let env = &s.limits.envelope[ax];
     // Braking is −x for a track along x, +z along the spine (see checks::rider).
@@ -205,8 +275,8 @@ pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
     } else {
         env.positive.clone()
     };
-    let mut series = Vec::new();
-    for (i, r) in runs.iter().enumerate() {
+    let mut lines = Vec::new();
+    for r in runs {
         let Ok(sig) = rider_signals(r, &s.rider) else {
             continue;
         };
@@ -221,21 +291,21 @@ pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
         } else {
             sustained_curve(u, &durations)
         };
-        series.push(Series {
-            name: r.case.clone(),
+        lines.push(CaseLine {
+            case: r.case.clone(),
+            part: None,
             points: durations.into_iter().zip(levels).collect(),
-            color: i,
             dashed: false,
         });
     }
-    if let Some(p) = envelope_points {
-        series.push(Series {
-            name: "limit envelope".into(),
-            points: p,
-            color: 6,
-            dashed: true,
-        });
-    }
+    let (series, background) = case_series(em, ENVELOPE_CHECKS, lines);
+    let ref_paths = envelope_points
+        .map(|points| RefPath {
+            points,
+            label: "limit envelope".into(),
+        })
+        .into_iter()
+        .collect();
     let axis = s.rider.track_axis.name();
     let side = if negative { "negative" } else { "positive" };
     Chart {
@@ -243,6 +313,8 @@ pub fn sustained(s: &Scenario, runs: &[RunResult]) -> Chart {
         x_label: "duration sustained (s)".into(),
         y_label: format!("sustained |acceleration| {axis} (g)"),
         series,
+        background,
+        ref_paths,
         ..Chart::default()
     }
 }
@@ -360,29 +432,25 @@ fn fin_limit_line(s: &Scenario) -> Vec<RefLine> {
 /// series per case (its track fins one after another, a gap between fins), with the
 /// fin-temperature limit. None when the
 /// scenario has no track fins.
-pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> {
-    let mut series = Vec::new();
-    for (i, h) in heats.iter().enumerate() {
-        // Every track fin of the case in one series, a gap (NaN point) between fins.
-        let mut points: Vec<(f64, f64)> = Vec::new();
-        for p in h.track_profiles.iter().filter(|p| !p.temps.is_empty()) {
-            if !points.is_empty() {
-                points.push((f64::NAN, f64::NAN));
-            }
-            points.extend(thin(p.temps.clone()));
-        }
-        if !points.is_empty() {
-            series.push(Series {
-                name: h.case.clone(),
-                points,
-                color: i,
-                dashed: false,
+pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat], em: &Emphasis) -> Option<Chart> {
+    let mut lines = Vec::new();
+    for h in heats {
+        // One line per track fin, named; the second fin of a pair is dashed (fins on two faces
+        // share the same stretch of track).
+        let profiles = h.track_profiles.iter().filter(|p| !p.temps.is_empty());
+        for (k, p) in profiles.enumerate() {
+            lines.push(CaseLine {
+                case: h.case.clone(),
+                part: Some(p.fin.clone()),
+                points: thin(p.temps.clone()),
+                dashed: k % 2 == 1,
             });
         }
     }
-    if series.is_empty() {
+    if lines.is_empty() {
         return None;
     }
+    let (series, background) = case_series(em, FIN_CHECKS, lines);
     let after = if s.duty.is_some() {
         "after the last pass of the duty cycle"
     } else {
@@ -393,6 +461,7 @@ pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> 
         x_label: "track position (m)".into(),
         y_label: "fin temperature (°C)".into(),
         series,
+        background,
         h_lines: fin_limit_line(s),
         ..Chart::default()
     })
@@ -400,32 +469,33 @@ pub fn fin_temperature_track(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> 
 
 /// Figure 5b: the highest fin temperature (°C) right after each pass against the cycle number,
 /// per case, with the fin-temperature limit. None without a duty block.
-pub fn fin_temperature_cycles(s: &Scenario, heats: &[CaseHeat]) -> Option<Chart> {
+pub fn fin_temperature_cycles(s: &Scenario, heats: &[CaseHeat], em: &Emphasis) -> Option<Chart> {
     s.duty.as_ref()?;
-    let series: Vec<Series> = heats
+    let lines: Vec<CaseLine> = heats
         .iter()
-        .enumerate()
-        .filter(|(_, h)| !h.cycles.is_empty())
-        .map(|(i, h)| Series {
-            name: h.case.clone(),
+        .filter(|h| !h.cycles.is_empty())
+        .map(|h| CaseLine {
+            case: h.case.clone(),
+            part: None,
             points: thin(
                 h.cycles
                     .iter()
                     .map(|c| (f64::from(c.cycle), c.peak_fin_temperature_c))
                     .collect(),
             ),
-            color: i,
             dashed: false,
         })
         .collect();
-    if series.is_empty() {
+    if lines.is_empty() {
         return None;
     }
+    let (series, background) = case_series(em, FIN_CHECKS, lines);
     Some(Chart {
         title: "Peak fin temperature over the duty cycle".into(),
         x_label: "cycle (pass number)".into(),
         y_label: "peak fin temperature after the pass (°C)".into(),
         series,
+        background,
         h_lines: fin_limit_line(s),
         ..Chart::default()
     })
@@ -440,14 +510,16 @@ pub fn all_figures(
     runs: &[RunResult],
     curves: &[PairCurve],
     heats: &[CaseHeat],
+    verdict: &Verdict,
 ) -> Vec<Figure> {
+    let em = Emphasis::new(s, verdict);
     let mut v = vec![
         Figure {
             id: "speed-position".into(),
             caption: "Speed against vehicle front position for every case; shaded: magnet \
                       sections (or track fins); band or lines: exit-speed window of the limits."
                 .into(),
-            chart: speed_position(s, runs),
+            chart: speed_position(s, runs, &em),
         },
         Figure {
             id: "felt-acceleration".into(),
@@ -456,14 +528,14 @@ pub fn all_figures(
                  filtered; dashed grey: peak limits.",
                 crate::checks::rider::axis_word(&s.rider)
             ),
-            chart: felt_acceleration(s, runs),
+            chart: felt_acceleration(s, runs, &em),
         },
         Figure {
             id: "sustained-acceleration".into(),
             caption: "Sustained acceleration level against the time it is held (filtered signal), \
                       with the limit envelope."
                 .into(),
-            chart: sustained(s, runs),
+            chart: sustained(s, runs, &em),
         },
     ];
     let designs = force_speed(curves, runs);
@@ -478,7 +550,7 @@ pub fn all_figures(
             chart,
         });
     }
-    if let Some(chart) = fin_temperature_track(s, heats) {
+    if let Some(chart) = fin_temperature_track(s, heats, &em) {
         v.push(Figure {
             id: "fin-temperature-track".into(),
             caption: "Temperature along the track fins after the last pass of the heat \
@@ -488,7 +560,7 @@ pub fn all_figures(
             chart,
         });
     }
-    if let Some(chart) = fin_temperature_cycles(s, heats) {
+    if let Some(chart) = fin_temperature_cycles(s, heats, &em) {
         v.push(Figure {
             id: "fin-temperature-cycles".into(),
             caption: "Highest fin temperature right after each pass against the cycle number \

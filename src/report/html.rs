@@ -443,6 +443,7 @@ pub fn report_html(r: &ReportInput<'_>) -> String {
 
     o.push_str("<h2 id=\"runs\">Runs</h2>\n");
     runs_table(r.runs, &mut o);
+    super::loads_out::loads_html(r.runs, &mut o);
     heating_section(s, r.heat, &mut o);
 
     // Model.

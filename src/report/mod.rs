@@ -4,6 +4,8 @@
 pub mod bundle;
 /// CSV writers: force–speed curves and run profiles.
 pub mod csv_out;
+/// Which cases the figures draw prominently (nominal, worst of a check).
+pub mod emphasis;
 /// Charts built from results: speed, felt acceleration, sustained curves, force–speed, heating.
 pub mod figures;
 /// Output folders written as a whole, under a lock.
@@ -12,6 +14,8 @@ pub mod folder;
 pub mod html;
 /// JSON documents printed by `--json`.
 pub mod json_out;
+/// Section loads (peak force, impulse, energy) as tables.
+pub mod loads_out;
 /// Generic line charts rendered to PNG and SVG with an embedded font.
 pub mod plots;
 /// Figures of a sweep: ECDF per check with its limit, tornado chart of sensitivities.

@@ -68,6 +68,8 @@ pub(super) struct CaseSetup<'a> {
     pub sampling: Sampling,
     /// Keep the dense output in the result.
     pub trajectory: bool,
+    /// Integrate the load of every section ([`RunOptions::section_loads`]).
+    pub section_loads: bool,
 }
 
 impl<'a> CaseSetup<'a> {
@@ -138,6 +140,7 @@ impl<'a> CaseSetup<'a> {
             sample_dt_s: options.sample_dt_s.max(1e-6),
             sampling: options.sampling,
             trajectory: options.trajectory,
+            section_loads: options.section_loads,
         }
     }
 
@@ -165,15 +168,9 @@ impl Ctx {
             *p = 0.0;
         }
         for &(p, a, b) in &fr.pairs {
-            let ov = a + b * x;
-            let pair = &self.pairs[p];
-            let fin = pair.spec.fin;
-            let f = match &self.fin_fields[fin] {
-                Some(field) => field_force(pair, field, x, v, ov),
-                None => pair.force_per_m_n(v, self.fin_temp(fin, y)) * ov,
-            };
+            let f = self.pair_force(p, a + b * x, y);
             brake -= f;
-            dy[4 + fin] += f * v;
+            dy[4 + self.pairs[p].spec.fin] += f * v;
         }
         let gravity = fr.gravity.force_n(self.mass_kg, x);
         let cos_theta = fr.gravity.cos_theta(x);
@@ -189,6 +186,19 @@ impl Ctx {
         dy[1] = (brake + gravity + resistance) / self.mass_kg;
         dy[2] = -brake * v;
         dy[3] = -resistance * v;
+    }
+
+    /// The drag of pair `p` with the overlap `ov` (m) in the state `y`, N: odd in the speed, so
+    /// the force on the vehicle along +s is its negative.
+    #[inline]
+    pub fn pair_force<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> f64 {
+        let (x, v) = (y[0], y[1]);
+        let pair = &self.pairs[p];
+        let fin = pair.spec.fin;
+        match &self.fin_fields[fin] {
+            Some(field) => field_force(pair, field, x, v, ov),
+            None => pair.force_per_m_n(v, self.fin_temp(fin, y)) * ov,
+        }
     }
 
     /// Whether static resistance (rolling and friction) holds the vehicle at rest against

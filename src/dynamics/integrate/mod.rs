@@ -22,6 +22,7 @@
 mod context;
 mod dopri;
 mod events;
+mod loads;
 mod options;
 mod pieces;
 mod run;

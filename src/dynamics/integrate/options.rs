@@ -29,6 +29,10 @@ pub struct RunOptions {
     /// Keep the integrator's dense output of position and speed in
     /// [`RunResult::trajectory`](crate::dynamics::RunResult::trajectory) (default false).
     pub trajectory: bool,
+    /// Integrate each section's peak force, impulse and energy into
+    /// [`RunResult::sections`](crate::dynamics::RunResult::sections) (default false: the
+    /// planner and the sweep do not need them).
+    pub section_loads: bool,
 }
 
 impl Default for RunOptions {
@@ -41,6 +45,7 @@ impl Default for RunOptions {
             track_fin_fields: None,
             solver: None,
             trajectory: false,
+            section_loads: false,
         }
     }
 }

@@ -6,7 +6,9 @@ use super::dopri::State;
 use super::events::{Event, Watch};
 use super::pieces::{piece, piece_bounds, piece_index, Frozen};
 use super::sampling::Sampler;
-use crate::dynamics::{DynamicsError, FinHeat, IntegrationCause, Outcome, Quantity, RunResult};
+use crate::dynamics::{
+    DynamicsError, FinHeat, IntegrationCause, Outcome, Quantity, RunResult, SectionLoad,
+};
 
 /// Most pieces one run may take before it counts as events in a loop.
 const MAX_PIECES: usize = 200_000;
@@ -93,7 +95,19 @@ impl<const N: usize> RunState<N> {
             h_next: setup.solver.h_initial_s,
             piece_idx: 0,
             next_piece: None,
-            res: RunResult::empty(&case.name, case.mass_kg, initial_energy),
+            res: RunResult {
+                sections: if setup.section_loads {
+                    setup
+                        .scenario
+                        .sections
+                        .iter()
+                        .map(SectionLoad::zero)
+                        .collect()
+                } else {
+                    Vec::new()
+                },
+                ..RunResult::empty(&case.name, case.mass_kg, initial_energy)
+            },
             sampler: Sampler::new(setup.sample_dt_s, setup.trajectory),
         }
     }

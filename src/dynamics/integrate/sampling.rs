@@ -92,6 +92,7 @@ impl Sampler {
         if sc.in_zone {
             extremes(sc.frozen.dir, dense, &position, &speed, th_hi, res);
         }
+        super::loads::add_step(sc.ctx, sc.frozen, dense, th_hi, res);
         if self.keep_trajectory {
             res.trajectory.push(PathStep {
                 t0_s: dense.t0,

@@ -9,15 +9,26 @@ use plotters::style::text_anchor::{HPos, VPos};
 
 use super::text::{fit_text, put_text, text_size};
 use super::{
-    draw_error, palette_color, rgb, Chart, Metrics, Plan, PlotError, BAND_ALPHA, BAND_TINTS,
-    REF_COLOR, TEXT_COLOR,
+    draw_error, palette_color, rgb, Chart, Metrics, Plan, PlotError, BACKGROUND_COLOR, BAND_ALPHA,
+    BAND_TINTS, REF_COLOR, TEXT_COLOR,
 };
 
 /// What a legend row shows beside its text.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub(super) enum Swatch {
-    Line { color: RGBColor, dashed: bool },
-    Fill { tint: RGBColor },
+    Line {
+        color: RGBColor,
+        dashed: bool,
+    },
+    /// A background series: thin light grey.
+    Thin {
+        dashed: bool,
+    },
+    /// A further row of the entry above (no swatch).
+    Blank,
+    Fill {
+        tint: RGBColor,
+    },
     HLine,
     VLine,
 }
@@ -43,19 +54,40 @@ impl<'c> Legend<'c> {
     pub(super) fn new(chart: &'c Chart, m: &Metrics, w: u32) -> Result<Legend<'c>, PlotError> {
         let mut tints: BTreeMap<&str, RGBColor> = BTreeMap::new();
         let mut entries = Vec::new();
+        // An entry's text may hold line breaks: its further lines are rows without a swatch.
+        let mut push = |swatch: Swatch, text: &str| {
+            for (k, part) in text.split('\n').enumerate() {
+                entries.push(LegendEntry {
+                    swatch: if k == 0 { swatch } else { Swatch::Blank },
+                    text: if k == 0 {
+                        part.to_string()
+                    } else {
+                        format!("  {}", part.trim_start())
+                    },
+                });
+            }
+        };
         for (i, s) in chart.series.iter().enumerate() {
             let text = if s.name.is_empty() {
                 format!("series {}", i + 1)
             } else {
                 s.name.clone()
             };
-            entries.push(LegendEntry {
-                swatch: Swatch::Line {
-                    color: rgb(palette_color(s.color)),
+            let color = rgb(palette_color(s.color));
+            push(
+                Swatch::Line {
+                    color,
                     dashed: s.dashed,
                 },
-                text,
-            });
+                &text,
+            );
+        }
+        let mut seen: Vec<&str> = Vec::new();
+        for s in chart.background.iter().filter(|s| !s.name.is_empty()) {
+            if !seen.contains(&s.name.as_str()) {
+                seen.push(&s.name);
+                push(Swatch::Thin { dashed: s.dashed }, &s.name);
+            }
         }
         for band in chart.x_bands.iter().chain(&chart.y_bands) {
             if tints.contains_key(band.label.as_str()) {
@@ -70,14 +102,14 @@ impl<'c> Legend<'c> {
                 });
             }
         }
-        for (lines, swatch) in [
-            (&chart.h_lines, Swatch::HLine),
-            (&chart.v_lines, Swatch::VLine),
-        ] {
-            for line in lines.iter().filter(|l| !l.label.is_empty()) {
+        let h_labels = chart.h_lines.iter().map(|l| (&l.label, Swatch::HLine));
+        let paths = chart.ref_paths.iter().map(|p| (&p.label, Swatch::HLine));
+        let v_labels = chart.v_lines.iter().map(|l| (&l.label, Swatch::VLine));
+        for (label, swatch) in h_labels.chain(paths).chain(v_labels) {
+            if !label.is_empty() {
                 entries.push(LegendEntry {
                     swatch,
-                    text: line.label.clone(),
+                    text: label.clone(),
                 });
             }
         }
@@ -134,6 +166,17 @@ pub(super) fn draw_legend<DB: DrawingBackend>(
                     root.draw(&PathElement::new(pts, style))
                 }
             }
+            Swatch::Thin { dashed } => {
+                let style = BACKGROUND_COLOR.stroke_width(1);
+                let pts = vec![(x0, cy), (x0 + sw, cy)];
+                if dashed {
+                    let (dash, gap) = m.series_dash;
+                    root.draw(&DashedPathElement::new(pts, dash / 2, gap / 2, style))
+                } else {
+                    root.draw(&PathElement::new(pts, style))
+                }
+            }
+            Swatch::Blank => Ok(()),
             Swatch::Fill { tint } => {
                 let half = row / 3;
                 root.draw(&Rectangle::new(

@@ -66,12 +66,30 @@ pub struct Chart {
     pub y_range: Option<(f64, f64)>,
     /// Logarithmic (base 10) x axis; points, bands and lines at x ≤ 0 are then not drawn.
     pub log_x: bool,
+    /// Context lines drawn thin and light grey under the series (e.g. the many cases that are
+    /// neither nominal nor the worst of a check); their `color` is not used. Series with the
+    /// same name share one legend row (an empty name gives none).
+    pub background: Vec<Series>,
+    /// Limit curves (e.g. an envelope of level against duration), drawn like the horizontal
+    /// reference lines (dark grey dashed, a style no series of the palette uses) and named in
+    /// the legend.
+    pub ref_paths: Vec<RefPath>,
+}
+
+/// A limit drawn as a polyline in the reference-line style.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct RefPath {
+    /// Points (x, y) in axis-label units; a non-finite point breaks the line.
+    pub points: Vec<(f64, f64)>,
+    /// Legend text; empty for none.
+    pub label: String,
 }
 
 /// One line of a chart.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Series {
-    /// Name shown in the legend (an empty name is shown as "series N").
+    /// Name shown in the legend (an empty name is shown as "series N"); a line break starts a
+    /// further legend row of the same entry (e.g. what a case is the worst of).
     pub name: String,
     /// Points (x, y) in axis-label units, joined in order; a non-finite point breaks the line.
     pub points: Vec<(f64, f64)>,
@@ -178,6 +196,8 @@ const BAND_TINTS: [(u8, u8, u8); 5] = [
     (204, 121, 167),
 ];
 const BAND_ALPHA: f64 = 0.18;
+/// Colour of background series (thin, light): context, not to be read line by line.
+const BACKGROUND_COLOR: RGBColor = RGBColor(185, 185, 185);
 /// Colour of reference lines and their labels.
 const REF_COLOR: RGBColor = RGBColor(70, 70, 70);
 const TEXT_COLOR: RGBColor = RGBColor(25, 25, 25);
@@ -242,7 +262,10 @@ fn rgb((r, g, b): (u8, u8, u8)) -> RGBColor {
 #[derive(Debug, Clone)]
 struct PreparedSeries {
     color: RGBColor,
-    dashed: bool,
+    /// Stroke width, px (background series 1 px).
+    width: u32,
+    /// (dash, gap) px of a dashed line.
+    dash: Option<(u32, u32)>,
     lines: Vec<Vec<(f64, f64)>>,
     markers: Vec<(f64, f64)>,
 }
@@ -311,6 +334,8 @@ struct Plan {
     y_label_area: u32,
     legend_w: u32,
     legend: Vec<LegendEntry>,
+    /// The background series first, then the series, then the reference paths, in drawing
+    /// order.
     series: Vec<PreparedSeries>,
     /// (from, to, tint) clipped to the x range.
     x_bands: Vec<(f64, f64, RGBColor)>,
@@ -341,8 +366,14 @@ impl Plan {
         // Axes: ranges from everything that is drawn, unless given.
         let mut xs: Vec<f64> = Vec::new();
         let mut ys: Vec<f64> = Vec::new();
-        for s in &chart.series {
-            for &(x, y) in &s.points {
+        let all_points = chart
+            .series
+            .iter()
+            .chain(&chart.background)
+            .map(|s| &s.points)
+            .chain(chart.ref_paths.iter().map(|p| &p.points));
+        for points in all_points {
+            for &(x, y) in points {
                 let x_ok = x.is_finite() && (!chart.log_x || x > 0.0);
                 if x_ok && y.is_finite() {
                     xs.push(x);
@@ -397,12 +428,25 @@ impl Plan {
         let (u0, u1) = x.axis_space_bounds();
         let (v0, v1) = y.axis_space_bounds();
         let rect = Rect { u0, u1, v0, v1 };
-        let series = chart
-            .series
+        // (points, colour, width, dash) in drawing order.
+        let dash_of = |dashed: bool, d: (u32, u32)| dashed.then_some(d);
+        let background = chart.background.iter().map(|s| {
+            let dash = dash_of(s.dashed, (m.series_dash.0 / 2, m.series_dash.1 / 2));
+            (&s.points, BACKGROUND_COLOR, 1, dash)
+        });
+        let front = chart.series.iter().map(|s| {
+            let color = rgb(palette_color(s.color));
+            (&s.points, color, m.line_w, dash_of(s.dashed, m.series_dash))
+        });
+        let limits = chart
+            .ref_paths
             .iter()
-            .map(|s| {
-                let pts: Vec<(f64, f64)> = s
-                    .points
+            .map(|p| (&p.points, REF_COLOR, m.ref_w, Some(m.h_line_dash)));
+        let series = background
+            .chain(front)
+            .chain(limits)
+            .map(|(points, color, width, dash)| {
+                let pts: Vec<(f64, f64)> = points
                     .iter()
                     .map(|&(px, py)| (x.value_to_axis_space(px), y.value_to_axis_space(py)))
                     .collect();
@@ -410,8 +454,9 @@ impl Plan {
                 let back =
                     |(u, v): (f64, f64)| (x.axis_space_to_value(u), y.axis_space_to_value(v));
                 PreparedSeries {
-                    color: rgb(palette_color(s.color)),
-                    dashed: s.dashed,
+                    color,
+                    width,
+                    dash,
                     lines: pieces
                         .lines
                         .into_iter()
@@ -638,14 +683,14 @@ fn draw<DB: DrawingBackend>(
 
     // Series.
     for s in &plan.series {
-        let style = s.color.stroke_width(m.line_w);
+        let style = s.color.stroke_width(s.width);
         for line in &s.lines {
-            if s.dashed {
+            if let Some((dash, gap)) = s.dash {
                 chart
                     .draw_series(std::iter::once(DashedPathElement::new(
                         line.iter().copied(),
-                        m.series_dash.0,
-                        m.series_dash.1,
+                        dash.max(1),
+                        gap.max(1),
                         style,
                     )))
                     .map_err(draw_error)?;
@@ -655,7 +700,7 @@ fn draw<DB: DrawingBackend>(
                     .map_err(draw_error)?;
             }
         }
-        let r = m.line_w + 2;
+        let r = s.width + 2;
         chart
             .draw_series(
                 s.markers
@@ -668,11 +713,13 @@ fn draw<DB: DrawingBackend>(
     // Labels of reference lines.
     for (at, label) in &plan.h_lines {
         let (_, y) = chart.backend_coord(&(xlo, *at));
-        let near_top = y - top < line_height(m.note) as i32 + 2 * gap;
+        // Clear of the line's own width (its label is never crossed by it).
+        let clear = gap + m.ref_w as i32;
+        let near_top = y - top < line_height(m.note) as i32 + 2 * clear;
         let (y, v) = if near_top {
-            (y + gap, VPos::Top)
+            (y + clear, VPos::Top)
         } else {
-            (y - gap, VPos::Bottom)
+            (y - clear, VPos::Bottom)
         };
         text(
             label,

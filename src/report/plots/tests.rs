@@ -4,6 +4,9 @@
 use super::*;
 use proptest::prelude::*;
 
+/// Many cases: background lines, limit paths, legend rows, labels off their lines.
+mod many;
+
 const SIZE: (u32, u32) = (800, 500);
 
 /// Decodes PNG bytes with the `png` crate (an independent decoder of the format) into RGB8.
@@ -148,6 +151,8 @@ fn sample_chart() -> Chart {
         x_range: None,
         y_range: None,
         log_x: false,
+        background: vec![],
+        ref_paths: vec![],
     }
 }
 
@@ -698,6 +703,8 @@ proptest! {
     #[test]
     fn arbitrary_charts_never_panic(
         series in prop::collection::vec(any_series(), 0..4),
+        background in prop::collection::vec(any_series(), 0..3),
+        paths in prop::collection::vec(any_series(), 0..2),
         bands in prop::collection::vec((any_f64(), any_f64()), 0..3),
         lines in prop::collection::vec(any_f64(), 0..3),
         x_range in any_range(),
@@ -718,6 +725,11 @@ proptest! {
             x_range,
             y_range,
             log_x,
+            background,
+            ref_paths: paths
+                .into_iter()
+                .map(|p| RefPath { points: p.points, label: p.name })
+                .collect(),
         };
         match render_png(&chart, (w, h)) {
             Ok(bytes) => {
