@@ -38,6 +38,7 @@ pub mod field;
 pub mod fin_ends;
 pub mod layer;
 pub mod measured;
+pub mod offset;
 pub(crate) mod quadrature;
 pub mod table;
 pub mod uncertainty;
@@ -47,6 +48,7 @@ pub use ends::{section_end_length_m, section_end_lengths, EndLengths, EndTable, 
 pub use fin_ends::{fin_end_lengths, FinEndLengths, FinEndTable};
 pub use layer::{skin_depth_m, DragModel, HarmonicTerm};
 pub use measured::MeasuredCurve;
+pub use offset::{offset_forces_per_area_pa, OffsetHarmonic};
 pub use table::ForceTable;
 pub use uncertainty::{recoil_loss, ModelUncertainty, UncertaintyBand, UncertaintyParts};
 
