@@ -275,20 +275,10 @@ pub fn height_pass(
         .collect();
     let total: f64 = pieces.iter().map(|x| x.1).sum();
     let mean_rise_k = energy_j / cap.whole_j_k;
-    let deposit = |p: &mut HeightProfile, fraction: f64, dt: f64| {
-        let q: Vec<f64> = weights
-            .iter()
-            .map(|w| w * n * mean_rise_k * fraction / dt.max(1e-300))
-            .collect();
-        modes.step(p, Some(&q), dt, f64::INFINITY, 0.0);
-    };
     if total > 0.0 && total.is_finite() {
-        for (dt, e) in pieces {
-            if dt > 0.0 {
-                deposit(&mut p, e / total, dt);
-            }
-            peak = peak.max(p.peak_c());
-        }
+        let rise: Vec<f64> = weights.iter().map(|w| w * n * mean_rise_k).collect();
+        let shares: Vec<(f64, f64)> = pieces.iter().map(|&(dt, e)| (dt, e / total)).collect();
+        peak = peak.max(modes.deposit_pieces(&mut p, &rise, &shares));
     } else if energy_j > 0.0 {
         for (t, w) in p.temps_c.iter_mut().zip(&weights) {
             *t += w * n * mean_rise_k;
