@@ -8,6 +8,9 @@
 use eddyzone::constants::MU0_H_M;
 use eddyzone::physics::{BrakeGeometry, DragModel, OffsetHarmonic};
 use num_complex::Complex64;
+
+mod common;
+use common::{solve_cells, stack_cells, Layer};
 use std::f64::consts::PI;
 
 const BR_T: f64 = 1.25;
@@ -19,21 +22,10 @@ fn square_wave_t(br: f64, fill: f64, n: u32) -> f64 {
     4.0 / (n * PI) * br * (n * PI * fill / 2.0).sin()
 }
 
-/// One layer of the gap, from the iron at −a to the iron at +a.
-struct Layer {
-    thickness_m: f64,
-    conductivity_s_m: f64,
-    /// μ0·M_y of the magnet in the layer, T (0 for air and fin).
-    magnetisation_t: f64,
-    cells: usize,
-}
-
 /// Drag and lateral force per unit area of the fin layer (index 2), Pa.
 ///
-/// Finite-volume (second-order) solution of d²A/dy² − (k² + jωμ0σ(y))·A = j·k·μ0·M_y(y) with
-/// dA/dy = 0 on the iron (magnetoquasistatics, Ampère's law with H = B/μ0 − M and J = −σ∂A/∂t;
-/// Jackson, Classical Electrodynamics, 3rd ed., 1999, §5.18), solved by the Thomas algorithm
-/// (Conte & de Boor, Elementary Numerical Analysis, 1980, §3.7). The drag is the loss
+/// The field from the finite-volume solution across the gap (`common::solve_cells`: Jackson,
+/// Classical Electrodynamics, 3rd ed., 1999, §5.18; Thomas algorithm). The drag is the loss
 /// ∫ω²σ|A|²/2 dy over the fin divided by v; the lateral force is the jump of the time-averaged
 /// Maxwell stress ⟨T_yy⟩ = (|B_y|² − |B_x|²)/(4μ0) (B_x = dA/dy, B_y = jkA) between the middles of
 /// the two air layers, where it is constant (no sources there), upper minus lower (force on the
@@ -41,45 +33,8 @@ struct Layer {
 fn fd_forces(layers: &[Layer], k: f64, v: f64) -> (f64, f64) {
     let omega = k * v;
     let j = Complex64::new(0.0, 1.0);
-    let mut cells = Vec::new();
-    for (index, layer) in layers.iter().enumerate() {
-        let h = layer.thickness_m / layer.cells as f64;
-        for _ in 0..layer.cells {
-            cells.push((h, layer.conductivity_s_m, layer.magnetisation_t, index));
-        }
-    }
-    let nodes = cells.len() + 1;
-    let zero = Complex64::new(0.0, 0.0);
-    let (mut lower, mut diag, mut upper, mut rhs) = (
-        vec![zero; nodes],
-        vec![zero; nodes],
-        vec![zero; nodes],
-        vec![zero; nodes],
-    );
-    for (c, &(h, sigma, m, _)) in cells.iter().enumerate() {
-        let g = 1.0 / h;
-        let q = (k * k + j * omega * MU0_H_M * sigma) * (h / 2.0);
-        diag[c] -= g + q;
-        diag[c + 1] -= g + q;
-        upper[c] += g;
-        lower[c + 1] += g;
-        let s = j * k * m * (h / 2.0);
-        rhs[c] += s;
-        rhs[c + 1] += s;
-    }
-    let (mut cp, mut dp) = (vec![zero; nodes], vec![zero; nodes]);
-    cp[0] = upper[0] / diag[0];
-    dp[0] = rhs[0] / diag[0];
-    for i in 1..nodes {
-        let den = diag[i] - lower[i] * cp[i - 1];
-        cp[i] = upper[i] / den;
-        dp[i] = (rhs[i] - lower[i] * dp[i - 1]) / den;
-    }
-    let mut a = vec![zero; nodes];
-    a[nodes - 1] = dp[nodes - 1];
-    for i in (0..nodes - 1).rev() {
-        a[i] = dp[i] - cp[i] * a[i + 1];
-    }
+    let cells = stack_cells(layers);
+    let a = solve_cells(&cells, k, v);
     let mut loss = 0.0;
     for (c, &(h, sigma, _, layer)) in cells.iter().enumerate() {
         if layer == 2 {

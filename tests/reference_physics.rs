@@ -12,6 +12,9 @@ use eddyzone::physics::{
     russell_norsworthy, skin_depth_m, BrakeGeometry, DragModel, ForceTable, MeasuredCurve,
 };
 use num_complex::Complex64;
+
+mod common;
+use common::{solve_cells, stack_cells, Layer};
 use proptest::prelude::*;
 use std::f64::consts::PI;
 
@@ -59,15 +62,6 @@ fn gap_field_t(g: &BrakeGeometry, br: f64, n: u32) -> f64 {
 // Independent finite-difference solution of the one-harmonic slab problem.
 // ---------------------------------------------------------------------------------------------
 
-/// One layer of the gap, from one iron plate to the other.
-struct Layer {
-    thickness_m: f64,
-    conductivity_s_m: f64,
-    /// μ0·M_y of the magnet in the layer, T (0 for air and fin).
-    magnetisation_t: f64,
-    cells: usize,
-}
-
 /// Result of the finite-difference solution for one grid.
 struct FdResult {
     /// Dissipated power per unit area / speed, Pa.
@@ -87,46 +81,9 @@ struct FdResult {
 /// `fin_layer` is the index of the conducting layer whose force is wanted.
 fn fd_solve(layers: &[Layer], fin_layer: usize, k: f64, speed_m_s: f64) -> FdResult {
     let omega = k * speed_m_s;
-    // Cells: (length, σ, μ0 M, layer index)
-    let mut cells = Vec::new();
-    for (index, layer) in layers.iter().enumerate() {
-        let h = layer.thickness_m / layer.cells as f64;
-        for _ in 0..layer.cells {
-            cells.push((h, layer.conductivity_s_m, layer.magnetisation_t, index));
-        }
-    }
-    let nodes = cells.len() + 1;
     let j = Complex64::new(0.0, 1.0);
-    let mut lower = vec![Complex64::new(0.0, 0.0); nodes];
-    let mut diag = vec![Complex64::new(0.0, 0.0); nodes];
-    let mut upper = vec![Complex64::new(0.0, 0.0); nodes];
-    let mut rhs = vec![Complex64::new(0.0, 0.0); nodes];
-    for (c, &(h, sigma, m, _)) in cells.iter().enumerate() {
-        let g = 1.0 / h;
-        let q = (k * k + j * omega * MU0_H_M * sigma) * (h / 2.0);
-        diag[c] -= g + q;
-        diag[c + 1] -= g + q;
-        upper[c] += g;
-        lower[c + 1] += g;
-        let s = j * k * m * (h / 2.0);
-        rhs[c] += s;
-        rhs[c + 1] += s;
-    }
-    // Thomas algorithm.
-    let mut cp = vec![Complex64::new(0.0, 0.0); nodes];
-    let mut dp = vec![Complex64::new(0.0, 0.0); nodes];
-    cp[0] = upper[0] / diag[0];
-    dp[0] = rhs[0] / diag[0];
-    for i in 1..nodes {
-        let den = diag[i] - lower[i] * cp[i - 1];
-        cp[i] = upper[i] / den;
-        dp[i] = (rhs[i] - lower[i] * dp[i - 1]) / den;
-    }
-    let mut a = vec![Complex64::new(0.0, 0.0); nodes];
-    a[nodes - 1] = dp[nodes - 1];
-    for i in (0..nodes - 1).rev() {
-        a[i] = dp[i] - cp[i] * a[i + 1];
-    }
+    let cells = stack_cells(layers);
+    let a = solve_cells(&cells, k, speed_m_s);
 
     // Loss per unit area: ∫ ω²σ|A|²/2 dy over the fin (trapezoid rule), force = loss / v.
     let mut loss = 0.0;

@@ -218,15 +218,7 @@ fn heating_summary(s: &Scenario, heats: &[CaseHeat], out: &mut String) {
          </th></tr>\n",
     );
     for h in heats {
-        let hottest = h
-            .fins
-            .iter()
-            .max_by(|a, b| {
-                a.steady_peak_temperature_c
-                    .total_cmp(&b.steady_peak_temperature_c)
-            })
-            .map(|f| f.fin.as_str())
-            .unwrap_or("");
+        let hottest = h.hottest_fin().map(|f| f.fin.as_str()).unwrap_or("");
         let _ = writeln!(
             out,
             "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td></tr>",

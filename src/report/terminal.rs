@@ -343,15 +343,7 @@ pub fn heat_summary(s: &Scenario, heats: &[CaseHeat]) -> String {
         "decel_steady_g",
     ]);
     for h in heats {
-        let hottest = h
-            .fins
-            .iter()
-            .max_by(|a, b| {
-                a.steady_peak_temperature_c
-                    .total_cmp(&b.steady_peak_temperature_c)
-            })
-            .map(|f| f.fin.clone())
-            .unwrap_or_default();
+        let hottest = h.hottest_fin().map(|f| f.fin.clone()).unwrap_or_default();
         t.row(vec![
             h.case.clone(),
             h.cycles.len().to_string(),

@@ -202,6 +202,16 @@ pub struct CaseHeat {
     pub steady_start: Vec<FinState>,
 }
 
+impl CaseHeat {
+    /// The fin with the highest steady peak temperature (None without fins).
+    pub fn hottest_fin(&self) -> Option<&FinHeatResult> {
+        self.fins.iter().max_by(|a, b| {
+            a.steady_peak_temperature_c
+                .total_cmp(&b.steady_peak_temperature_c)
+        })
+    }
+}
+
 fn mount_name(m: Mount) -> &'static str {
     match m {
         Mount::Vehicle { .. } => "vehicle",
