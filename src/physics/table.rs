@@ -27,9 +27,16 @@
 //! as Br² (see [`super::layer`]), one table serves every fin temperature and magnet temperature:
 //! f(v; σ', Br') = (Br'/Br)²·f(v·σ'/σ; σ, Br), exactly. Beyond V (or where a panel does not
 //! converge, which shortens the table) the exact model is used.
+//!
+//! A fin displaced from the centre plane ([`super::offset`]) has its own drag table
+//! ([`ForceTable::build_offset`], the same construction over the off-centre drag) and a
+//! [`LateralTable`] of its lateral force f_y, which is even in v and quadratic at rest: the
+//! table holds f_y/v² on the same panels and grid, again relative to f_y at every speed. Both
+//! scale with σ·v and Br² as the drag does.
 
 use super::chebyshev::{clenshaw, coefficients, lobatto_point, to_monomial};
 use super::layer::DragModel;
+use super::offset::OffsetModel;
 
 /// Degree of the interval polynomials.
 const DEGREE: usize = 5;
@@ -56,6 +63,8 @@ const MAX_OCTAVES: u32 = 40;
 #[derive(Clone, Debug)]
 pub struct ForceTable {
     model: DragModel,
+    /// The off-centre model the table interpolates instead of `model` (None: centred fin).
+    offset: Option<OffsetModel>,
     max_speed_m_s: f64,
     /// 1/v₀, s/m.
     inverse_base_s_m: f64,
@@ -78,9 +87,9 @@ fn model_g(model: &DragModel, speed_m_s: f64) -> f64 {
 
 /// The master series of one panel [lo, hi]: Chebyshev coefficients in x = (2v − lo − hi)/(hi − lo),
 /// or `None` if 65 points do not reach the tolerance.
-fn master_panel(model: &DragModel, lo: f64, hi: f64) -> Option<Vec<f64>> {
+fn master_panel(g: &dyn Fn(f64) -> f64, lo: f64, hi: f64) -> Option<Vec<f64>> {
     let (mid, half) = (0.5 * (lo + hi), 0.5 * (hi - lo));
-    let at = |j: usize, n: usize| model_g(model, mid + half * lobatto_point(j, n));
+    let at = |j: usize, n: usize| g(mid + half * lobatto_point(j, n));
     let mut n = 16;
     let mut values: Vec<f64> = (0..=n).map(|j| at(j, n)).collect();
     loop {
@@ -172,8 +181,33 @@ impl ForceTable {
     /// poles) ends the table there (see
     /// [`ForceTable::max_speed_m_s`]) and the exact model serves the speeds above it.
     pub fn build(model: &DragModel, max_speed_m_s: f64) -> Self {
+        Self::tabulate(model, None, max_speed_m_s, &|v| model_g(model, v))
+    }
+
+    /// Tabulates the drag of the off-centre model `offset` from 0 to `max_speed_m_s` (m/s) as
+    /// [`ForceTable::build`] does the centred one; its exact model beyond the range is `offset`.
+    pub fn build_offset(offset: &OffsetModel, max_speed_m_s: f64) -> Self {
+        let g = |v: f64| {
+            if v > 0.0 {
+                offset.drag_per_area_pa(v) / v
+            } else {
+                offset.low_speed_drag_pa_s_m()
+            }
+        };
+        Self::tabulate(offset.model(), Some(offset.clone()), max_speed_m_s, &g)
+    }
+
+    /// The table of `g` (= f/v of the law, or f_y/v² for a [`LateralTable`]) with the panels
+    /// laid out from the critical speed of `model`.
+    fn tabulate(
+        model: &DragModel,
+        offset: Option<OffsetModel>,
+        max_speed_m_s: f64,
+        g: &dyn Fn(f64) -> f64,
+    ) -> Self {
         let mut table = ForceTable {
             model: model.clone(),
+            offset,
             max_speed_m_s: 0.0,
             inverse_base_s_m: 0.0,
             grid_bits: *GRID_BITS.start(),
@@ -202,7 +236,7 @@ impl ForceTable {
         let mut masters = Vec::new();
         for q in 0..=octaves {
             let (lo, hi) = bounds(q);
-            match master_panel(model, lo, hi) {
+            match master_panel(g, lo, hi) {
                 Some(series) => masters.push((lo, hi, series)),
                 None => break,
             }
@@ -262,6 +296,15 @@ impl ForceTable {
     pub fn force_per_area_pa(&self, speed_m_s: f64) -> f64 {
         match self.locate(speed_m_s.abs()) {
             Some((c, x, _)) => speed_m_s * horner(c, x),
+            None => self.exact_pa(speed_m_s),
+        }
+    }
+
+    /// The exact drag per unit area the table interpolates, Pa: the off-centre model when it has
+    /// one, else the centred model.
+    fn exact_pa(&self, speed_m_s: f64) -> f64 {
+        match &self.offset {
+            Some(o) => o.drag_per_area_pa(speed_m_s),
             None => self.model.force_per_area_pa(speed_m_s),
         }
     }
@@ -291,7 +334,7 @@ impl ForceTable {
                 // Fourth-order central difference (Abramowitz & Stegun, 1964, 25.3.6) with a
                 // step of 1e-3 of the local speed scale.
                 let h = 1e-3 * v.max(self.model.critical_speed_m_s());
-                let f = |u: f64| self.model.force_per_area_pa(u);
+                let f = |u: f64| self.exact_pa(u);
                 (-f(v + 2.0 * h) + 8.0 * f(v + h) - 8.0 * f(v - h) + f(v - 2.0 * h)) / (12.0 * h)
             }
         }
@@ -321,9 +364,76 @@ impl ForceTable {
         self.coefficients.len()
     }
 
-    /// The model the table was built from (used beyond the table range).
+    /// The model the table was built from (used beyond the table range; the centred one of an
+    /// off-centre table).
     pub fn model(&self) -> &DragModel {
         &self.model
+    }
+
+    /// The off-centre model of a table built by [`ForceTable::build_offset`].
+    pub fn offset(&self) -> Option<&OffsetModel> {
+        self.offset.as_ref()
+    }
+}
+
+/// Tabulated lateral force of an off-centre fin ([`OffsetModel::lateral_per_area_pa`]): the
+/// panels and grid of [`ForceTable`] over g = f_y/v² (even in v, the closed-form low-speed
+/// limit at rest), within 1e-9 relative of the model inside its range and the model beyond it.
+#[derive(Clone, Debug)]
+pub struct LateralTable {
+    /// The panels and grid over f_y/v² (only its grid is read).
+    grid: ForceTable,
+    /// The model, used beyond the grid.
+    offset: OffsetModel,
+}
+
+impl LateralTable {
+    /// Tabulates the lateral force of `offset` from 0 to `max_speed_m_s` (m/s).
+    pub fn build(offset: &OffsetModel, max_speed_m_s: f64) -> Self {
+        let g = |v: f64| {
+            if v > 0.0 {
+                offset.lateral_per_area_pa(v) / (v * v)
+            } else {
+                offset.low_speed_lateral_pa_s2_m2()
+            }
+        };
+        Self {
+            grid: ForceTable::tabulate(offset.model(), None, max_speed_m_s, &g),
+            offset: offset.clone(),
+        }
+    }
+
+    /// Lateral force per unit area in Pa along +y at `speed_m_s` (m/s), at the reference
+    /// conductivity and remanence (even in v; negative for a positive offset).
+    #[inline]
+    pub fn lateral_per_area_pa(&self, speed_m_s: f64) -> f64 {
+        let v = speed_m_s.abs();
+        match self.grid.locate(v) {
+            Some((c, x, _)) => v * v * horner(c, x),
+            None => self.offset.lateral_per_area_pa(v),
+        }
+    }
+
+    /// Lateral force per unit area in Pa with conductivity and remanence scaled as in
+    /// [`ForceTable::force_per_area_scaled_pa`]: remanence_ratio²·f_y,ref(v·conductivity_ratio).
+    #[inline]
+    pub fn lateral_per_area_scaled_pa(
+        &self,
+        speed_m_s: f64,
+        conductivity_ratio: f64,
+        remanence_ratio: f64,
+    ) -> f64 {
+        remanence_ratio * remanence_ratio * self.lateral_per_area_pa(speed_m_s * conductivity_ratio)
+    }
+
+    /// Upper end of the tabulated speed range in m/s.
+    pub fn max_speed_m_s(&self) -> f64 {
+        self.grid.max_speed_m_s
+    }
+
+    /// The off-centre model behind the table.
+    pub fn offset(&self) -> &OffsetModel {
+        &self.offset
     }
 }
 

@@ -23,7 +23,9 @@ pub const SINGLE_PASS_NOTE: &str =
 
 /// The table of run results.
 pub fn run_table(results: &[RunResult]) -> String {
-    let mut t = Table::new(&[
+    // The lateral force columns only when some section has its fin off-centre.
+    let lateral = results.iter().any(|r| r.peak_lateral.is_some());
+    let mut head = vec![
         "case",
         "outcome",
         "entry_m_s",
@@ -40,9 +42,13 @@ pub fn run_table(results: &[RunResult]) -> String {
         "residual_j",
         "steps",
         "rhs",
-    ]);
+    ];
+    if lateral {
+        head.extend(["lateral_n", "lateral_at_m", "lateral_at_m_s"]);
+    }
+    let mut t = Table::new(&head);
     for r in results {
-        t.row(vec![
+        let mut cells = vec![
             r.case.clone(),
             r.outcome.name().into(),
             num(r.entry_speed_m_s, 2),
@@ -59,7 +65,16 @@ pub fn run_table(results: &[RunResult]) -> String {
             format!("{:.1e}", r.energy_residual_j),
             r.steps.to_string(),
             r.rhs_evaluations.to_string(),
-        ]);
+        ];
+        if lateral {
+            let p = r.peak_lateral.unwrap_or_default();
+            cells.extend([
+                num(r.peak_lateral.map(|_| p.force_n), 1),
+                num(p.position_m, 2),
+                num(p.speed_m_s, 2),
+            ]);
+        }
+        t.row(cells);
     }
     t.render()
 }

@@ -23,6 +23,8 @@ pub(super) struct Ctx {
     pub resistance: Resistance,
     pub air_density: f64,
     pub n_fins: usize,
+    /// Some pair has a lateral force (a fin off-centre): the run records its peak.
+    pub lateral: bool,
 }
 
 /// A track fin's temperature field as the force law reads it: per cell the inverse of the
@@ -70,6 +72,9 @@ pub(super) struct CaseSetup<'a> {
     pub trajectory: bool,
     /// Integrate the load of every section ([`RunOptions::section_loads`]).
     pub section_loads: bool,
+    /// Some section of the scenario has its fin off-centre: the result reports the peak lateral
+    /// force (0 when this case's pairs have none).
+    pub lateral_reported: bool,
 }
 
 impl<'a> CaseSetup<'a> {
@@ -116,10 +121,12 @@ impl<'a> CaseSetup<'a> {
                 .collect(),
             _ => (0..n_fins).map(|_| None).collect(),
         };
+        let pairs = active_pairs(scenario, tables, case);
         let ctx = Ctx {
             mass_kg: case.mass_kg,
             vehicle_len_m: scenario.vehicle.length_m,
-            pairs: active_pairs(scenario, tables, case),
+            lateral: pairs.iter().any(ActivePair::has_lateral),
+            pairs,
             fin_capacity_j_k,
             fin_start_c,
             fin_fields,
@@ -141,6 +148,7 @@ impl<'a> CaseSetup<'a> {
             sampling: options.sampling,
             trajectory: options.trajectory,
             section_loads: options.section_loads,
+            lateral_reported: tables.has_lateral(),
         }
     }
 
@@ -201,6 +209,22 @@ impl Ctx {
         }
     }
 
+    /// The lateral force on the fin of pair `p` along +y with the overlap `ov` (m) in the state
+    /// `y`, N (even in the speed; 0 for a centred fin).
+    #[inline]
+    pub fn pair_lateral<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> f64 {
+        let (x, v) = (y[0], y[1]);
+        let pair = &self.pairs[p];
+        let fin = pair.spec.fin;
+        match &self.fin_fields[fin] {
+            Some(field) if ov > 0.0 => {
+                pair.lateral_over_parts_n(v, field_parts(pair, field, x, ov))
+            }
+            Some(_) => 0.0,
+            None => pair.lateral_per_m_n(v, self.fin_temp(fin, y)) * ov,
+        }
+    }
+
     /// Whether static resistance (rolling and friction) holds the vehicle at rest against
     /// gravity in the state `y`.
     pub fn static_hold<const N: usize>(&self, fr: &Frozen, y: &State<N>) -> bool {
@@ -219,20 +243,30 @@ fn field_force(pair: &ActivePair, field: &FieldLaw, x: f64, v: f64, ov: f64) -> 
     if ov.is_nan() || ov <= 0.0 {
         return 0.0;
     }
+    pair.force_over_parts_n(v, field_parts(pair, field, x, ov))
+}
+
+/// The parts of the overlap window (from its lower edge, of length `ov` > 0) in the cells of
+/// `field`: (ρ20/ρ(T_k), length of the part in m).
+fn field_parts<'a>(
+    pair: &ActivePair,
+    field: &'a FieldLaw,
+    x: f64,
+    ov: f64,
+) -> impl Iterator<Item = (f64, f64)> + 'a {
     let lo = pair.spec.overlap.lower_edge(x).0;
     let hi = lo + ov;
     let first = ((lo - field.start_m) / field.cell_m).floor().max(0.0) as usize;
-    let parts = field
+    field
         .inverse_resistivity
         .iter()
         .enumerate()
         .skip(first)
-        .map(|(k, &inv_rho)| {
+        .map(move |(k, &inv_rho)| {
             let c0 = field.start_m + k as f64 * field.cell_m;
             (c0, inv_rho, hi.min(c0 + field.cell_m) - lo.max(c0))
         })
-        .take_while(|&(c0, _, _)| c0 < hi)
+        .take_while(move |&(c0, _, _)| c0 < hi)
         .filter(|&(_, _, part)| part > 0.0)
-        .map(|(_, inv_rho, part)| (inv_rho, part));
-    pair.force_over_parts_n(v, parts)
+        .map(|(_, inv_rho, part)| (inv_rho, part))
 }
