@@ -196,3 +196,72 @@ fn bad_offsets_are_refused_with_their_place() {
         "{err}"
     );
 }
+
+#[test]
+fn sweep_of_the_offset_reports_the_lateral_force() {
+    let tmp = tempfile::tempdir().unwrap();
+    let block = "sweep:
+  case: one
+  method: latin_hypercube
+  samples: 12
+  seed: 5
+  inputs:
+    fin_offset: { distribution: uniform, min: 0.5 mm, max: 3 mm }
+";
+    let p = write(
+        tmp.path(),
+        "sweep.yaml",
+        &format!("{}{block}", scenario("")),
+    );
+    let o = run(&["sweep", &p, "--json-file", "out.json"], tmp.path());
+    assert!(o.status.code() == Some(0), "{o:?}");
+    let text = String::from_utf8_lossy(&o.stdout);
+    assert!(text.contains("peak_lateral_force_n"), "{text}");
+    let j: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(tmp.path().join("out.json")).unwrap())
+            .unwrap();
+    // Every sample pushed back towards the centre, and the force grows with the offset (the
+    // lateral force is odd in e and, in this range, monotone: `physics::offset` low- and
+    // high-speed limits ∝ sinh(2ke) and r₋² − r₊²): Spearman's ρ of −1 exactly.
+    let lat = &j["lateral"];
+    assert_eq!(lat["output"], "peak_lateral_force_n");
+    assert!(lat["spread"]["max"].as_f64().unwrap() < 0.0);
+    let rho = lat["sensitivity"][0]["spearman"].as_f64().unwrap();
+    assert_eq!(lat["sensitivity"][0]["variable"], "fin_offset_m");
+    assert!(rho == -1.0, "{rho}");
+    // A sample is a single run: the sample with the largest offset, run on its own, reports
+    // the same force to 1e-6 (its tables reach another speed, so the table interpolation,
+    // ≤ 1e-9 of the model, and the offset written back in mm differ in the last digits).
+    let samples = j["samples"].as_array().unwrap();
+    let big = samples
+        .iter()
+        .max_by(|a, b| {
+            a["inputs"][0]
+                .as_f64()
+                .unwrap()
+                .total_cmp(&b["inputs"][0].as_f64().unwrap())
+        })
+        .unwrap();
+    let e = big["inputs"][0].as_f64().unwrap();
+    let one = write(
+        tmp.path(),
+        "one.yaml",
+        &scenario(&format!("    fin_offset: {} mm\n", e * 1e3)),
+    );
+    let c = json(&run(&["run", "--json", &one], tmp.path()));
+    let (a, b) = (
+        big["peak_lateral_force_n"].as_f64().unwrap(),
+        c["cases"][0]["peak_lateral_force_n"].as_f64().unwrap(),
+    );
+    assert!((a / b - 1.0).abs() < 1e-6, "{a} vs {b}");
+    // An offset that can reach the clearance is refused at its input, with its place.
+    let bad = block.replace("max: 3 mm", "max: 6 mm");
+    let p = write(tmp.path(), "bad.yaml", &format!("{}{bad}", scenario("")));
+    let o = run(&["sweep", &p], tmp.path());
+    assert_eq!(o.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert!(
+        err.contains("bad.yaml:31:33: sweep.inputs.fin_offset:") && err.contains("6 mm"),
+        "{err}"
+    );
+}

@@ -3,7 +3,8 @@
 
 use super::json_out::pretty;
 use super::text::{num, Table};
-use crate::sweep::SweepResult;
+use crate::sweep::stats::Spread;
+use crate::sweep::{Sensitivity, SweepResult};
 
 /// A number with enough digits for any check (`{:.4}` trimmed is too coarse for speeds).
 fn sig(x: f64) -> String {
@@ -12,6 +13,30 @@ fn sig(x: f64) -> String {
     } else {
         format!("{x:.4}")
     }
+}
+
+/// min, P1, P5, P50, P95, P99, max (empty without values).
+fn spread_cells(sp: Option<&Spread>) -> [String; 7] {
+    let q = |f: fn(&Spread) -> f64| sp.map(f).map_or(String::new(), sig);
+    [
+        q(|s| s.min),
+        q(|s| s.p1),
+        q(|s| s.p5),
+        q(|s| s.p50),
+        q(|s| s.p95),
+        q(|s| s.p99),
+        q(|s| s.max),
+    ]
+}
+
+/// The three variables of largest |ρ|, `name +0.97, …`.
+fn most_sensitive(s: &[Sensitivity]) -> String {
+    let top: Vec<String> = s
+        .iter()
+        .take(3)
+        .map(|x| format!("{} {:+.2}", x.variable, x.spearman))
+        .collect();
+    top.join(", ")
 }
 
 /// The terminal summary of a sweep.
@@ -43,29 +68,18 @@ pub fn sweep_text(r: &SweepResult) -> String {
         "most sensitive to (Spearman)",
     ]);
     for s in &r.summaries {
-        let sp = s.spread.as_ref();
-        let q = |f: fn(&crate::sweep::stats::Spread) -> f64| sp.map(f).map_or(String::new(), sig);
-        let top: Vec<String> = s
-            .sensitivity
-            .iter()
-            .take(3)
-            .map(|x| format!("{} {:+.2}", x.variable, x.spearman))
-            .collect();
-        t.row(vec![
+        let mut row = vec![
             s.check.key.clone(),
             s.check.unit.clone(),
             s.check.limit.map_or(String::new(), sig),
-            q(|s| s.min),
-            q(|s| s.p1),
-            q(|s| s.p5),
-            q(|s| s.p50),
-            q(|s| s.p95),
-            q(|s| s.p99),
-            q(|s| s.max),
+        ];
+        row.extend(spread_cells(s.spread.as_ref()));
+        row.extend([
             format!("{:.4}", s.failure.estimate),
             format!("[{:.4}, {:.4}]", s.failure.low, s.failure.high),
-            top.join(", "),
+            most_sensitive(&s.sensitivity),
         ]);
+        t.row(row);
     }
     out.push_str(&t.render());
     if let Some(l) = &r.lateral {
@@ -110,26 +124,10 @@ fn output_table(o: &crate::sweep::OutputSummary) -> String {
         "max",
         "most sensitive to (Spearman)",
     ]);
-    let sp = o.spread.as_ref();
-    let q = |f: fn(&crate::sweep::stats::Spread) -> f64| sp.map(f).map_or(String::new(), sig);
-    let top: Vec<String> = o
-        .sensitivity
-        .iter()
-        .take(3)
-        .map(|x| format!("{} {:+.2}", x.variable, x.spearman))
-        .collect();
-    t.row(vec![
-        o.output.clone(),
-        o.unit.clone(),
-        q(|s| s.min),
-        q(|s| s.p1),
-        q(|s| s.p5),
-        q(|s| s.p50),
-        q(|s| s.p95),
-        q(|s| s.p99),
-        q(|s| s.max),
-        top.join(", "),
-    ]);
+    let mut row = vec![o.output.clone(), o.unit.clone()];
+    row.extend(spread_cells(o.spread.as_ref()));
+    row.push(most_sensitive(&o.sensitivity));
+    t.row(row);
     t.render()
 }
 
