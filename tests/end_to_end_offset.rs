@@ -265,3 +265,59 @@ fn sweep_of_the_offset_reports_the_lateral_force() {
         "{err}"
     );
 }
+
+#[test]
+fn curve_of_an_off_centre_section_has_its_drag_and_lateral_force() {
+    let tmp = tempfile::tempdir().unwrap();
+    let p = write(tmp.path(), "off.yaml", &scenario("    fin_offset: 2 mm\n"));
+    let speeds = "2:20:2";
+    let j = json(&run(
+        &["curve", &p, "--format", "json", "--speeds", speeds],
+        tmp.path(),
+    ));
+    let g = BrakeGeometry {
+        pole_pitch_m: 0.050,
+        magnet_thickness_m: 0.012,
+        magnet_fill: 0.85,
+        clearance_m: 0.006,
+        fin_thickness_m: 0.010,
+        fin_height_m: 0.180,
+        pole_height_m: 0.150,
+    };
+    let o = OffsetModel::new(&DragModel::new(&g, 1.25, 30e6).unwrap(), 0.002).unwrap();
+    let points = j[0]["points"].as_array().unwrap();
+    assert_eq!(points.len(), 10);
+    for q in points {
+        // At 20 °C the curve is the off-centre model itself × the active height (0.15 m):
+        // 1e-12 relative (rounding).
+        let v = q["speed_m_s"].as_f64().unwrap();
+        let drag = q["force_per_area_pa"].as_f64().unwrap();
+        let lat = q["lateral_per_m_n"].as_f64().unwrap();
+        assert!((drag / o.drag_per_area_pa(v) - 1.0).abs() < 1e-12, "v={v}");
+        assert!(
+            (lat / (o.lateral_per_area_pa(v) * 0.15) - 1.0).abs() < 1e-12,
+            "v={v}"
+        );
+        assert!(lat < 0.0 && q["lateral_full_overlap_n"].as_f64().unwrap() < 0.0);
+    }
+    // The CSV carries the two lateral columns after the usual ones; a centred fin has none.
+    let csv = run(
+        &["curve", &p, "--format", "csv", "--speeds", speeds],
+        tmp.path(),
+    );
+    let head = String::from_utf8_lossy(&csv.stdout)
+        .lines()
+        .next()
+        .unwrap()
+        .to_string();
+    assert!(
+        head.ends_with(",lateral_per_m_n,lateral_full_overlap_n"),
+        "{head}"
+    );
+    let c = write(tmp.path(), "centred.yaml", &scenario(""));
+    let csv = run(
+        &["curve", &c, "--format", "csv", "--speeds", speeds],
+        tmp.path(),
+    );
+    assert!(!String::from_utf8_lossy(&csv.stdout).contains("lateral"));
+}

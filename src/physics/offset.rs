@@ -298,10 +298,29 @@ impl OffsetModel {
         self.fin_offset_m
     }
 
+    /// Drag per unit area of the fundamental alone (with its finite-height factor), Pa.
+    pub fn drag_per_area_fundamental_pa(&self, speed_m_s: f64) -> f64 {
+        self.sum_over(
+            &self.harmonics[..1.min(self.harmonics.len())],
+            speed_m_s,
+            |h| h.drag_per_area_pa(speed_m_s),
+        )
+    }
+
     /// Σ F_n(σv)·term(harmonic) over the kept harmonics.
     fn sum(&self, speed_m_s: f64, term: impl Fn(&OffsetHarmonic) -> f64) -> f64 {
+        self.sum_over(&self.harmonics, speed_m_s, term)
+    }
+
+    /// Σ F_n(σv)·term(harmonic) over `harmonics`.
+    fn sum_over(
+        &self,
+        harmonics: &[OffsetHarmonic],
+        speed_m_s: f64,
+        term: impl Fn(&OffsetHarmonic) -> f64,
+    ) -> f64 {
         let sigma_v = self.model.conductivity_s_m() * speed_m_s.abs();
-        self.harmonics
+        harmonics
             .iter()
             .map(|h| {
                 let f = self

@@ -600,7 +600,8 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
     for g in &groups {
         let p = g[0];
         outln!(out, "\n{} × {}", p.section, p.fin);
-        let mut t = Table::new(&[
+        let lateral = p.points.iter().any(|q| q.lateral_per_m_n.is_some());
+        let mut head = vec![
             "speed_m_s",
             "force_per_area_pa",
             "fundamental_pa",
@@ -609,10 +610,14 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
             "force_full_overlap_n",
             "force_low_n",
             "force_high_n",
-        ]);
+        ];
+        if lateral {
+            head.extend(["lateral_per_m_n", "lateral_full_overlap_n"]);
+        }
+        let mut t = Table::new(&head);
         let stride = (p.points.len() / 25).max(1);
         for q in p.points.iter().step_by(stride) {
-            t.row(vec![
+            let mut row = vec![
                 num(Some(q.speed_m_s), 2),
                 num(q.force_per_area_pa, 1),
                 num(q.force_per_area_fundamental_pa, 1),
@@ -621,7 +626,11 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
                 num(Some(q.force_full_overlap_n), 1),
                 num(q.force_full_overlap_low_n, 1),
                 num(q.force_full_overlap_high_n, 1),
-            ]);
+            ];
+            if lateral {
+                row.extend([num(q.lateral_per_m_n, 1), num(q.lateral_full_overlap_n, 1)]);
+            }
+            t.row(row);
         }
         out.push_str(&t.render());
     }
