@@ -135,6 +135,11 @@ fn lateral_force_is_reported_centring_and_equals_the_model() {
         );
         assert!(text.contains(&format!("{f:.1}")), "{text}");
     }
+    // The HTML report's run table has the column too.
+    let o = run(&["report", "off.yaml", "--out", "rep"], tmp.path());
+    assert!(o.status.success(), "{o:?}");
+    let html = std::fs::read_to_string(tmp.path().join("rep/report.html")).unwrap();
+    assert!(html.contains("<th>peak lateral force (N, along +y)</th>"));
     // Odd in the offset (physics::offset: the lateral force is odd in e, the drag even, so both
     // runs are the same motion): equal and opposite to 1e-12.
     assert!(
@@ -213,10 +218,23 @@ fn sweep_of_the_offset_reports_the_lateral_force() {
         "sweep.yaml",
         &format!("{}{block}", scenario("")),
     );
-    let o = run(&["sweep", &p, "--json-file", "out.json"], tmp.path());
+    let o = run(
+        &["sweep", &p, "--json-file", "out.json", "--figures", "figs"],
+        tmp.path(),
+    );
     assert!(o.status.code() == Some(0), "{o:?}");
     let text = String::from_utf8_lossy(&o.stdout);
     assert!(text.contains("peak_lateral_force_n"), "{text}");
+    // Its ECDF (no limit line) and tornado figures are written beside the checks' ones.
+    for f in [
+        "ecdf-peak_lateral_force_n.svg",
+        "tornado-peak_lateral_force_n.png",
+    ] {
+        assert!(tmp.path().join("figs").join(f).is_file(), "{f}");
+    }
+    let svg =
+        std::fs::read_to_string(tmp.path().join("figs/ecdf-peak_lateral_force_n.svg")).unwrap();
+    assert!(svg.contains("peak_lateral_force_n (N)") && !svg.contains("limit "));
     let j: serde_json::Value =
         serde_json::from_str(&std::fs::read_to_string(tmp.path().join("out.json")).unwrap())
             .unwrap();
