@@ -85,6 +85,8 @@ pub struct Modes {
     n: usize,
     /// cos(kπ(j + ½)/n), row k.
     basis: Vec<f64>,
+    /// The same, row j (the basis transposed).
+    columns: Vec<f64>,
     /// 1 − cos(kπ/n).
     shape: Vec<f64>,
 }
@@ -103,7 +105,24 @@ impl Modes {
         let shape = (0..n)
             .map(|k| 1.0 - (k as f64 * std::f64::consts::PI / nf).cos())
             .collect();
-        Self { n, basis, shape }
+        let columns = (0..n * n).map(|i| basis[(i % n) * n + i / n]).collect();
+        Self {
+            n,
+            basis,
+            columns,
+            shape,
+        }
+    }
+
+    /// The modes of `n` cells, built once per process for the usual [`HEIGHT_CELLS`] (every
+    /// vehicle-fin pass and cooling uses them) and on the spot for other counts.
+    pub fn of(n: usize) -> std::borrow::Cow<'static, Modes> {
+        static USUAL: std::sync::OnceLock<Modes> = std::sync::OnceLock::new();
+        if n == HEIGHT_CELLS {
+            std::borrow::Cow::Borrowed(USUAL.get_or_init(|| Modes::new(HEIGHT_CELLS)))
+        } else {
+            std::borrow::Cow::Owned(Modes::new(n))
+        }
     }
 
     fn project(&self, v: &[f64]) -> Vec<f64> {
@@ -185,6 +204,8 @@ impl Modes {
         let mut decay = vec![1.0; self.n];
         let mut gain = vec![0.0; self.n];
         let mut last_dt = f64::NAN;
+        let mut watch = PeakWatch::new(self, &a);
+        let mut moved = false;
         for &(dt, share) in pieces {
             if dt.is_nan() || dt <= 0.0 {
                 continue;
@@ -214,10 +235,23 @@ impl Modes {
             for k in 0..self.n {
                 a[k] = a[k] * decay[k] + src[k] * per_s * gain[k];
             }
+            peak = peak.max(watch.peak(self, &a, peak));
+            moved = true;
+        }
+        if moved {
             self.reconstruct(&a, &mut profile.temps_c);
-            peak = peak.max(profile.peak_c());
         }
         peak
+    }
+
+    /// The value of cell `j` for the modal amplitudes `a`: the same sum, in the same order, as
+    /// [`Modes::reconstruct`] gives it.
+    fn cell_value(&self, a: &[f64], j: usize) -> f64 {
+        let mut t = 0.0;
+        for (ak, b) in a.iter().zip(&self.columns[j * self.n..(j + 1) * self.n]) {
+            t += ak * b;
+        }
+        t
     }
 
     /// The cell values of the modal amplitudes `a`, written into `out`: Σ_k a_k·row_k, a mode
@@ -229,6 +263,54 @@ impl Modes {
                 *t += ak * b;
             }
         }
+    }
+}
+
+/// The hottest cell of a profile stepped in modal amplitudes, without rebuilding every cell at
+/// every step. Since |cos| ≤ 1, no cell moves by more than D = Σ_k |a_k − a_k⁰| from its value
+/// at the last full rebuild (amplitudes a⁰, cells T⁰): only cells with T⁰_j + D at or above the
+/// running peak can beat it, and only those are summed (in the same order as a full rebuild,
+/// so the peak is the same to the last bit). When more than a third of the cells qualify, all
+/// are rebuilt and become the new reference.
+struct PeakWatch {
+    base_a: Vec<f64>,
+    base_t: Vec<f64>,
+    candidates: Vec<usize>,
+}
+
+impl PeakWatch {
+    fn new(modes: &Modes, a: &[f64]) -> Self {
+        let mut base_t = vec![0.0; modes.n];
+        modes.reconstruct(a, &mut base_t);
+        Self {
+            base_a: a.to_vec(),
+            base_t,
+            candidates: Vec::with_capacity(modes.n),
+        }
+    }
+
+    /// The hottest cell for amplitudes `a` if it is above `peak`, else a value not above it.
+    fn peak(&mut self, modes: &Modes, a: &[f64], peak: f64) -> f64 {
+        let drift: f64 = a.iter().zip(&self.base_a).map(|(x, y)| (x - y).abs()).sum();
+        // Rounding of the sums (below 1e-15 of Σ|a|) kept well inside the margin.
+        let scale: f64 = a.iter().map(|x| x.abs()).sum();
+        let floor = peak - drift - 1e-12 * (1.0 + scale);
+        self.candidates.clear();
+        self.candidates
+            .extend((0..modes.n).filter(|&j| self.base_t[j] >= floor));
+        if 3 * self.candidates.len() > modes.n {
+            modes.reconstruct(a, &mut self.base_t);
+            self.base_a.copy_from_slice(a);
+            return self
+                .base_t
+                .iter()
+                .copied()
+                .fold(f64::NEG_INFINITY, f64::max);
+        }
+        self.candidates
+            .iter()
+            .map(|&j| modes.cell_value(a, j))
+            .fold(f64::NEG_INFINITY, f64::max)
     }
 }
 
@@ -461,5 +543,39 @@ mod tests {
             assert!((x - y).abs() < 1e-9, "{x} vs {y}");
         }
         assert!((peak - peak_b).abs() < 1e-9, "{peak} vs {peak_b}");
+    }
+
+    /// The watched peak equals, to the last bit, the hottest cell of a full rebuild at every
+    /// step, on 4 000 steps of amplitudes that drift, jump and heat a band (brute force).
+    #[test]
+    fn watched_peak_is_the_full_rebuild_peak() {
+        let n = HEIGHT_CELLS;
+        let modes = Modes::new(n);
+        let mut a: Vec<f64> = (0..n).map(|k| 40.0 / (1.0 + k as f64)).collect();
+        a[0] = 30.0;
+        let mut watch = PeakWatch::new(&modes, &a);
+        let mut full = vec![0.0; n];
+        modes.reconstruct(&a, &mut full);
+        let mut peak = full.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let mut brute = peak;
+        let mut rebuilt = 0;
+        for step in 0..4000 {
+            let s = f64::from(step);
+            for (k, x) in a.iter_mut().enumerate() {
+                let kf = k as f64;
+                *x = *x * (1.0 - 1e-4 * kf) + 1e-3 * (s * 0.01 + kf).sin();
+            }
+            if step % 997 == 0 {
+                a[3] += 5.0;
+            }
+            peak = peak.max(watch.peak(&modes, &a, peak));
+            modes.reconstruct(&a, &mut full);
+            brute = brute.max(full.iter().copied().fold(f64::NEG_INFINITY, f64::max));
+            assert_eq!(peak.to_bits(), brute.to_bits(), "step {step}");
+            if watch.base_a == a {
+                rebuilt += 1;
+            }
+        }
+        assert!(rebuilt < 4000, "some steps must be watched, not rebuilt");
     }
 }

@@ -328,7 +328,7 @@ pub fn height_pass(
     energy_j: f64,
     cap: &FinCapacity,
 ) -> FinPass {
-    let modes = Modes::new(start.temps_c.len());
+    let modes = Modes::of(start.temps_c.len());
     let mut p = start.clone();
     let weights = deposit_weights(&p, cap);
     // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
