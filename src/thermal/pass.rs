@@ -120,10 +120,7 @@ pub fn fin_capacity(
         )));
     }
     let height_weights = match fin.mount {
-        Mount::Vehicle { .. } => {
-            let profile = HeightProfile::uniform(fin.height_m, 0.0, HEIGHT_CELLS, 0.0);
-            sheet_weights(&profile, sheet.as_ref())
-        }
+        Mount::Vehicle { .. } => usual_weights(fin.height_m, sheet.as_ref()),
         Mount::Track { .. } => Vec::new(),
     };
     Ok(FinCapacity {
@@ -146,6 +143,28 @@ pub fn fin_capacities(
         .enumerate()
         .map(|(i, f)| fin_capacity(f, i, tables))
         .collect()
+}
+
+/// [`sheet_weights`] for a profile of `height_m` in [`HEIGHT_CELLS`] cells, remembered for the
+/// process: every heat study of a plan or a sweep asks for the same few fins again.
+fn usual_weights(height_m: f64, sheet: Option<&SheetLoss>) -> Vec<f64> {
+    type Known = Vec<((f64, Option<SheetLoss>), Vec<f64>)>;
+    static KNOWN: std::sync::Mutex<Known> = std::sync::Mutex::new(Vec::new());
+    let key = (height_m, sheet.copied());
+    if let Ok(known) = KNOWN.lock() {
+        if let Some((_, w)) = known.iter().find(|(k, _)| *k == key) {
+            return w.clone();
+        }
+    }
+    let profile = HeightProfile::uniform(height_m, 0.0, HEIGHT_CELLS, 0.0);
+    let weights = sheet_weights(&profile, sheet);
+    if let Ok(mut known) = KNOWN.lock() {
+        // A bounded memory: a scenario has a handful of fin designs.
+        if known.len() < 64 {
+            known.push((key, weights.clone()));
+        }
+    }
+    weights
 }
 
 /// Shares of a deposit across the cells of `profile` for the loss distribution `sheet` (even
