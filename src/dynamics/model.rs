@@ -644,6 +644,56 @@ pub fn remanence_ratio(beta_per_k: f64, temp_c: f64, reference_c: f64) -> f64 {
     r.max(0.0)
 }
 
+/// Whether two pairs brake alike wherever the vehicle is: the same force law (the same shared
+/// table and end curve, or the same measured curve, with equal heights and lengths), the same
+/// overlap window and the same case ratios. Only the fin and section indices may differ.
+pub fn same_brake(a: &ActivePair, b: &ActivePair) -> bool {
+    let law = match (&a.spec.law, &b.spec.law) {
+        (
+            PairLaw::Table {
+                table: ta,
+                section_ends: ea,
+                active_height_m: ha,
+                inverse_section_length_per_m: la,
+                ..
+            },
+            PairLaw::Table {
+                table: tb,
+                section_ends: eb,
+                active_height_m: hb,
+                inverse_section_length_per_m: lb,
+                ..
+            },
+        ) => Arc::ptr_eq(ta, tb) && Arc::ptr_eq(ea, eb) && ha == hb && la == lb,
+        (PairLaw::Measured { curve: ca, .. }, PairLaw::Measured { curve: cb, .. }) => {
+            Arc::ptr_eq(ca, cb)
+        }
+        _ => false,
+    };
+    law && a.spec.overlap == b.spec.overlap
+        && a.remanence_ratio == b.remanence_ratio
+        && a.fin_alpha_per_k == b.fin_alpha_per_k
+        && a.reference_resistivity_ratio == b.reference_resistivity_ratio
+        && a.force_factor == b.force_factor
+}
+
+/// Mirror fins of a case: for each fin, the earlier fin (itself not a mirror) whose pairs brake
+/// alike one for one and in order ([`same_brake`]), if any. Two such fins at equal temperatures
+/// take equal forces and equal heat at every point of every run (a twin-fin layout, common
+/// practice on towers and sleds to balance the lateral loads), so callers may evaluate one and
+/// count it twice. Whether their temperatures are equal is the caller's to check.
+pub fn mirror_fins(pairs: &[ActivePair], n_fins: usize) -> Vec<Option<usize>> {
+    let of_fin = |f: usize| pairs.iter().filter(move |p| p.spec.fin == f);
+    let mut mirror = vec![None; n_fins];
+    for j in 0..n_fins {
+        mirror[j] = (0..j).filter(|&i| mirror[i].is_none()).find(|&i| {
+            of_fin(i).count() == of_fin(j).count()
+                && of_fin(i).zip(of_fin(j)).all(|(a, b)| same_brake(a, b))
+        });
+    }
+    mirror
+}
+
 /// The active pairs of a case (disabled sections removed).
 pub fn active_pairs(scenario: &Scenario, tables: &BrakeTables, case: &Case) -> Vec<ActivePair> {
     tables

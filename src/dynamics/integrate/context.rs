@@ -6,7 +6,7 @@ use super::options::{RunOptions, Sampling, TempField};
 use super::pieces::{kinks, Frozen};
 use super::solver::SolverSettings;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
-use crate::dynamics::model::{active_pairs, ActivePair, BrakeTables};
+use crate::dynamics::model::{active_pairs, mirror_fins, ActivePair, BrakeTables};
 use crate::dynamics::track::{resistance_magnitude_n, TrackModel};
 use crate::scenario::{Case, Mount, Resistance, Scenario};
 
@@ -25,10 +25,16 @@ pub(super) struct Ctx {
     pub n_fins: usize,
     /// Some pair has a lateral force (a fin off-centre): the run records its peak.
     pub lateral: bool,
+    /// Per pair: whether it is a copy of an earlier pair on a mirror fin at the same
+    /// temperatures ([`mirror_fins`]); its force is its original's.
+    pub is_copy: Vec<bool>,
+    /// Per pair: the fins of its copies (empty for most pairs), which take its force and heat.
+    pub copy_fins: Vec<Vec<usize>>,
 }
 
 /// A track fin's temperature field as the force law reads it: per cell the inverse of the
 /// resistivity ratio ρ20/ρ(T_k), computed once per run.
+#[derive(PartialEq)]
 pub(super) struct FieldLaw {
     /// Track position of the first cell's upstream end, m.
     start_m: f64,
@@ -122,10 +128,12 @@ impl<'a> CaseSetup<'a> {
             _ => (0..n_fins).map(|_| None).collect(),
         };
         let pairs = active_pairs(scenario, tables, case);
-        let ctx = Ctx {
+        let mut ctx = Ctx {
             mass_kg: case.mass_kg,
             vehicle_len_m: scenario.vehicle.length_m,
             lateral: pairs.iter().any(ActivePair::has_lateral),
+            is_copy: vec![false; pairs.len()],
+            copy_fins: vec![Vec::new(); pairs.len()],
             pairs,
             fin_capacity_j_k,
             fin_start_c,
@@ -134,6 +142,7 @@ impl<'a> CaseSetup<'a> {
             air_density: scenario.track.air_density_kg_m3,
             n_fins,
         };
+        ctx.mark_copies();
         let kinks = kinks(&ctx.pairs, &track);
         Self {
             ctx,
@@ -159,6 +168,31 @@ impl<'a> CaseSetup<'a> {
 }
 
 impl Ctx {
+    /// Marks the pairs of mirror fins that start at the same temperatures (equal start, heat
+    /// capacity and field) as copies of their originals: the run evaluates each force once and
+    /// gives it to every copy, with the same result as evaluating them all (to rounding: the
+    /// sum over pairs is taken in another order).
+    fn mark_copies(&mut self) {
+        let mirror = mirror_fins(&self.pairs, self.n_fins);
+        for (j, m) in mirror.iter().enumerate() {
+            let Some(i) = *m else { continue };
+            if self.fin_start_c[i] != self.fin_start_c[j]
+                || self.fin_capacity_j_k[i] != self.fin_capacity_j_k[j]
+                || self.fin_fields[i] != self.fin_fields[j]
+            {
+                continue;
+            }
+            let originals: Vec<usize> = (0..self.pairs.len())
+                .filter(|&p| self.pairs[p].spec.fin == i)
+                .collect();
+            let copies = (0..self.pairs.len()).filter(|&q| self.pairs[q].spec.fin == j);
+            for (p, q) in originals.into_iter().zip(copies) {
+                self.is_copy[q] = true;
+                self.copy_fins[p].push(j);
+            }
+        }
+    }
+
     /// Temperature of `fin` in the state `y`, °C.
     pub fn fin_temp<const N: usize>(&self, fin: usize, y: &State<N>) -> f64 {
         match self.fin_capacity_j_k[fin] {
@@ -176,9 +210,16 @@ impl Ctx {
             *p = 0.0;
         }
         for &(p, a, b) in &fr.pairs {
+            if self.is_copy[p] {
+                continue;
+            }
             let f = self.pair_force(p, a + b * x, y);
             brake -= f;
             dy[4 + self.pairs[p].spec.fin] += f * v;
+            for &fin in &self.copy_fins[p] {
+                brake -= f;
+                dy[4 + fin] += f * v;
+            }
         }
         let gravity = fr.gravity.force_n(self.mass_kg, x);
         let cos_theta = fr.gravity.cos_theta(x);
