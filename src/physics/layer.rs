@@ -388,6 +388,17 @@ impl DragModel {
         }
     }
 
+    /// f_n/v of kept harmonic `index` (in the order of [`DragModel::harmonics`]) at speed
+    /// `speed_abs_m_s` ≥ 0, finite-height factor included, Pa·s/m: the terms whose sum is
+    /// `force_per_area_pa(v)/v`; NaN for an index beyond the kept harmonics.
+    pub(crate) fn harmonic_force_over_speed(&self, index: usize, speed_abs_m_s: f64) -> f64 {
+        if index < self.terms.len() {
+            self.term_force_over_speed(index, speed_abs_m_s)
+        } else {
+            f64::NAN
+        }
+    }
+
     /// Speed of the maximum of the harmonic sum: a scan at 16 points per decade over
     /// 10⁻⁴…10⁴ × `reference_speed_m_s` (widened if the maximum lies at an end), then a
     /// golden-section search in ln v on the bracketing interval (Kiefer, "Sequential minimax search
