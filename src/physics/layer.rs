@@ -96,7 +96,7 @@ pub fn skin_depth_m(angular_frequency_rad_s: f64, conductivity_s_m: f64) -> f64 
 /// equation): with r = |z|, √z = √((r + re)/2) + j·im/(2√((r + re)/2)); no cancellation since
 /// re > 0 (e.g. Press et al., *Numerical Recipes*, 3rd ed., 2007, §5.5).
 #[inline]
-fn sqrt_right_half_plane(re: f64, im: f64) -> Complex64 {
+pub(crate) fn sqrt_right_half_plane(re: f64, im: f64) -> Complex64 {
     let r = re.hypot(im);
     let s = (0.5 * (r + re)).sqrt();
     Complex64::new(s, 0.5 * im / s)
