@@ -400,15 +400,16 @@ impl DragModel {
     }
 
     /// Speed of the maximum of the harmonic sum: a scan at 16 points per decade over
-    /// 10⁻⁴…10⁴ × `reference_speed_m_s` (widened if the maximum lies at an end), then a
+    /// 10⁻²…10² × `reference_speed_m_s` (widened by 4 decades at a time, up to 10⁻¹⁸…10¹⁸, if the
+    /// maximum lies at an end), then a
     /// golden-section search in ln v on the bracketing interval (Kiefer, "Sequential minimax search
     /// for a maximum", Proc. AMS 4, 1953) down to 1e-10 in ln v.
     fn search_critical_speed(&self, reference_speed_m_s: f64) -> f64 {
         let ln_ref = reference_speed_m_s.ln();
         let step = std::f64::consts::LN_10 / 16.0;
-        let (mut lo_i, mut hi_i) = (-64_i32, 64_i32);
+        let (mut lo_i, mut hi_i) = (-32_i32, 32_i32);
         let mut best_i = 0;
-        for _ in 0..4 {
+        for _ in 0..5 {
             let mut best = f64::NEG_INFINITY;
             for i in lo_i..=hi_i {
                 let f = self.force_per_area_pa((ln_ref + f64::from(i) * step).exp());
