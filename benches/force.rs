@@ -11,7 +11,7 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::physics::{
     BrakeGeometry, DragModel, EdgeModel, EndTable, FinEndTable, FiniteHeightEdge, ForceTable,
-    ModelUncertainty, SectionEndCurve,
+    LateralTable, ModelUncertainty, OffsetModel, SectionEndCurve,
 };
 use std::hint::black_box;
 
@@ -122,5 +122,34 @@ fn benches(c: &mut Criterion) {
     });
 }
 
-criterion_group!(force, benches);
+/// The fin 2 mm off-centre (clearance 5 mm): its model, drag and lateral tables, evaluations.
+fn offset_benches(c: &mut Criterion) {
+    let model = DragModel::new(&typical(), 1.25, 58e6).expect("valid typical model");
+    let offset = OffsetModel::new(&model, 2e-3).expect("valid offset");
+    c.bench_function("off-centre drag and lateral tables to 60 m/s", |b| {
+        b.iter(|| {
+            black_box((
+                ForceTable::build_offset(black_box(&offset), 60.0),
+                LateralTable::build(black_box(&offset), 60.0),
+            ))
+        })
+    });
+    let mut speed = 0.0_f64;
+    c.bench_function("direct off-centre model evaluation (drag)", |b| {
+        b.iter(|| {
+            speed = if speed > 59.0 { 0.137 } else { speed + 0.731 };
+            black_box(offset.drag_per_area_pa(black_box(speed)))
+        })
+    });
+    let lateral = LateralTable::build(&offset, 60.0);
+    let mut speed = 0.0_f64;
+    c.bench_function("lateral table evaluation", |b| {
+        b.iter(|| {
+            speed = if speed > 59.0 { 0.137 } else { speed + 0.731 };
+            black_box(lateral.lateral_per_area_pa(black_box(speed)))
+        })
+    });
+}
+
+criterion_group!(force, benches, offset_benches);
 criterion_main!(force);

@@ -1,11 +1,13 @@
 //! Force–speed curves of each section × fin pair of a scenario, at given fin and magnet
 //! temperatures (exact rescaling of the 20 °C model: σ·v and Br²), with the section's end length
-//! and the model's uncertainty band ([`crate::physics::uncertainty`]) at every speed.
+//! and the model's uncertainty band ([`crate::physics::uncertainty`]) at every speed. A section
+//! with its fin off-centre gives the off-centre drag ([`crate::physics::offset`]) and its lateral
+//! force beside it; its critical speed, peak and band are those of the centred fin.
 
 use crate::constants::REFERENCE_TEMPERATURE_C;
 use crate::dynamics::model::{remanence_ratio, section_end_factor, BrakeTables, PairLaw};
 use crate::dynamics::DynamicsError;
-use crate::physics::{skin_depth_m, DragModel, ModelUncertainty, SectionEndCurve};
+use crate::physics::{skin_depth_m, DragModel, ModelUncertainty, OffsetModel, SectionEndCurve};
 use crate::scenario::Scenario;
 use serde::Serialize;
 use std::sync::Arc;
@@ -35,6 +37,14 @@ pub struct CurvePoint {
     pub force_full_overlap_low_n: Option<f64>,
     /// `force_full_overlap_n` at the band's upper edge, N (None for measured curves).
     pub force_full_overlap_high_n: Option<f64>,
+    /// Lateral force on the fin along +y per metre of overlap of a long section, N/m (only for
+    /// a fin off-centre; negative for a positive offset: towards the centre).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub lateral_per_m_n: Option<f64>,
+    /// The lateral force with the fin fully overlapping, as `force_full_overlap_n`, N (only for
+    /// a fin off-centre).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub lateral_full_overlap_n: Option<f64>,
 }
 
 /// The curve of one section × fin pair.
@@ -132,6 +142,7 @@ pub fn curves(
         let rho = fin.material.resistivity_ratio(fin_t);
         match &p.law {
             PairLaw::Table {
+                table,
                 model,
                 active_height_m,
                 section_ends,
@@ -157,6 +168,7 @@ pub fn curves(
                 );
                 let design = Design {
                     model,
+                    offset: table.offset(),
                     band: &band,
                     ends: section_ends,
                     height_m: *active_height_m,
@@ -195,6 +207,8 @@ pub fn curves(
                         band_high_fraction: None,
                         force_full_overlap_low_n: None,
                         force_full_overlap_high_n: None,
+                        lateral_per_m_n: None,
+                        lateral_full_overlap_n: None,
                     })
                     .collect();
                 // Peak of the measured data (a monotone interpolant peaks at a data point).
@@ -222,6 +236,8 @@ pub fn curves(
 /// What a model curve is drawn from.
 struct Design<'a> {
     model: &'a DragModel,
+    /// The off-centre model of a fin off-centre.
+    offset: Option<&'a OffsetModel>,
     band: &'a ModelUncertainty,
     ends: &'a SectionEndCurve,
     height_m: f64,
@@ -243,10 +259,21 @@ fn model_curve(
     let points = speeds
         .iter()
         .map(|&v| {
-            let f = k * model.force_per_area_pa(v * sigma_ratio);
-            let f1 = k * model.force_per_area_fundamental_pa(v * sigma_ratio);
+            let u = v * sigma_ratio;
+            let (f, f1) = match d.offset {
+                Some(o) => (
+                    k * o.drag_per_area_pa(u),
+                    k * o.drag_per_area_fundamental_pa(u),
+                ),
+                None => (
+                    k * model.force_per_area_pa(u),
+                    k * model.force_per_area_fundamental_pa(u),
+                ),
+            };
             let ell = d.ends.total_m_scaled(v, sigma_ratio);
-            let whole = f * height * full * section_end_factor(ell, d.inverse_section_length_per_m);
+            let share = section_end_factor(ell, d.inverse_section_length_per_m);
+            let whole = f * height * full * share;
+            let lateral = d.offset.map(|o| k * o.lateral_per_area_pa(u) * height);
             let band = d.band.band_for_fin(v, sigma_ratio, d.fin_length_m);
             CurvePoint {
                 speed_m_s: v,
@@ -259,6 +286,8 @@ fn model_curve(
                 band_high_fraction: Some(band.high),
                 force_full_overlap_low_n: Some(whole * (1.0 + band.low)),
                 force_full_overlap_high_n: Some(whole * (1.0 + band.high)),
+                lateral_per_m_n: lateral,
+                lateral_full_overlap_n: lateral.map(|l| l * full * share),
             }
         })
         .collect();
@@ -269,12 +298,20 @@ fn model_curve(
         section: section.to_string(),
         fin: fin.to_string(),
         critical_speed_m_s: vc,
-        peak_force_per_m_n: k * model.force_per_area_pa(vc * sigma_ratio) * height,
+        peak_force_per_m_n: k
+            * d.offset
+                .map_or(model.force_per_area_pa(vc * sigma_ratio), |o| {
+                    o.drag_per_area_pa(vc * sigma_ratio)
+                })
+            * height,
         edge_factor: Some(model.edge_factor()),
         gap_field_t: Some(model.gap_field_t() * br),
         skin_depth_at_critical_m: Some(skin_depth_m(k1 * vc, sigma)),
         low_speed_coefficient_n_s_m2: Some(
-            k * model.low_speed_coefficient_pa_s_m() * sigma_ratio * height,
+            k * d.offset.map_or(model.low_speed_coefficient_pa_s_m(), |o| {
+                o.low_speed_drag_pa_s_m()
+            }) * sigma_ratio
+                * height,
         ),
         points,
     }

@@ -20,8 +20,9 @@ fn eddyzone(args: &[&str]) -> Output {
         .expect("the binary runs")
 }
 
-/// The sweep demo's zone with a small sweep block of `samples` samples and `seed`: clearance
-/// and conductivity draws, so the samples use several force tables.
+/// The sweep demo's zone with a small sweep block of `samples` samples and `seed`: clearance,
+/// fin offset and conductivity draws, so the samples use several force tables and carry the
+/// peak lateral force.
 fn demo(dir: &Path, name: &str, samples: usize, seed: u64) -> PathBuf {
     let text = std::fs::read_to_string(root().join("scenarios/coaster-sweep.yaml")).unwrap();
     let (zone, _) = text.split_once("\nsweep:").unwrap();
@@ -40,6 +41,7 @@ fn demo(dir: &Path, name: &str, samples: usize, seed: u64) -> PathBuf {
     mass: {{ distribution: uniform, min: 6.8 t, max: 7.8 t }}
     speed: {{ distribution: normal, mean: 77 km/h, std: 2 km/h, min: 70 km/h, max: 84 km/h }}
     clearance: {{ distribution: discrete, values: [5.5 mm, 6.5 mm] }}
+    fin_offset: {{ distribution: discrete, values: [0 mm, 1.5 mm] }}
     fin_conductivity: {{ distribution: discrete, values: [24 MS/m, 26 MS/m], scope: each }}
     force_factor: {{ distribution: normal, mean: 1.0, std: 0.05, min: 0.85, max: 1.15 }}
 "
@@ -118,6 +120,20 @@ fn merged_shards_are_the_unsharded_bytes() {
     let j: serde_json::Value = serde_json::from_slice(&whole[1]).unwrap();
     assert!(j["tables"].as_u64().unwrap() > 1);
     assert_eq!(j["samples"].as_array().unwrap().len(), 23);
+    // The peak lateral force went through the shards: a column of the CSV, a value in every
+    // sample (0 for a centred fin, towards the centre — negative — for the 1.5 mm offset).
+    let header = String::from_utf8_lossy(&merged[0]);
+    assert!(header
+        .lines()
+        .next()
+        .unwrap()
+        .contains("peak_lateral_force_n"));
+    assert!(j["lateral"]["spread"]["min"].as_f64().unwrap() < 0.0);
+    for smp in j["samples"].as_array().unwrap() {
+        let f = smp["peak_lateral_force_n"].as_f64().unwrap();
+        let e = smp["inputs"].as_array().unwrap()[3].as_f64().unwrap();
+        assert!(if e == 0.0 { f == 0.0 } else { f < 0.0 }, "e={e} f={f}");
+    }
     // One shard of one is the whole too.
     let one = shard(d, &sc, "one", 1, 1);
     let (_, single) = outputs(d, "single", &["sweep", "merge", s(&one)]);

@@ -83,7 +83,7 @@ vehicle:
     - { name: fin, offset: 0.5 m, length: 1.2 m, height: 180 mm, thickness: 9 mm, material: clad, repeat: { count: 3, pitch: 1.7 m } }
 sections:
   - { name: B, start: 20 m, length: 1 m, pole_pitch: 50 mm, magnet_thickness: 12 mm, magnet_fill: 85 %, remanence: 1250 mT,
-      remanence_temp_coeff: -0.11 %/K, clearance: 6 mm, pole_height: 150 mm, grade: N42SH, repeat: { count: 4, pitch: 1.6 m } }
+      remanence_temp_coeff: -0.11 %/K, clearance: 6 mm, fin_offset: -1.5 mm, pole_height: 150 mm, grade: N42SH, repeat: { count: 4, pitch: 1.6 m } }
   - name: M
     start: 30 m
     length: 1 m

@@ -198,6 +198,23 @@ pub struct Sample {
     pub event: bool,
 }
 
+/// The largest lateral force of a run: the sum over the fin × section pairs of the force on the
+/// fins across the gap, along +y (the side a positive `fin_offset` points to), at the samples
+/// inside the zone (every dt and at events). A fin off-centre is pushed back towards the centre
+/// plane, so a positive offset gives a negative force; the magnets take the reaction.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Serialize)]
+pub struct LateralPeak {
+    /// The signed lateral force where its size is largest, N (0: no lateral force).
+    #[serde(rename = "peak_lateral_force_n")]
+    pub force_n: f64,
+    /// Vehicle front position there, m (None: no lateral force).
+    #[serde(rename = "peak_lateral_position_m")]
+    pub position_m: Option<f64>,
+    /// Speed there, m/s (None: no lateral force).
+    #[serde(rename = "peak_lateral_speed_m_s")]
+    pub speed_m_s: Option<f64>,
+}
+
 /// Energy dissipated in and temperature of one fin over the pass.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct FinHeat {
@@ -290,6 +307,10 @@ pub struct RunResult {
     pub initial_energy_j: f64,
     /// Largest |brake force| at the samples (every dt and at events), N.
     pub peak_brake_force_n: f64,
+    /// The peak lateral force on the fins (only when some section has its fin off-centre):
+    /// `peak_lateral_force_n`, `peak_lateral_position_m`, `peak_lateral_speed_m_s` in output.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub peak_lateral: Option<LateralPeak>,
     /// Accepted integrator steps.
     pub steps: u64,
     /// Right-hand-side evaluations.
@@ -354,6 +375,7 @@ impl RunResult {
             energy_residual_j: 0.0,
             initial_energy_j,
             peak_brake_force_n: 0.0,
+            peak_lateral: None,
             steps: 0,
             rhs_evaluations: 0,
             end_time_s: 0.0,

@@ -11,11 +11,23 @@
 //! passage is exact to first order in ℓ whether the fin or the section is the longer element
 //! (each section end spends a fin length inside the overlap window, and the window's area is
 //! L·L_f), and the overlap stays linear between kinks.
+//!
+//! A section whose fin runs off-centre (`fin_offset` ≠ 0) has its drag from the off-centre
+//! model ([`crate::physics::offset`]) and a second table of the lateral force on the fin along
+//! +y (the side a positive offset points to; negative for a positive offset: back towards the
+//! centre). The lateral force per metre of overlap is scaled exactly as the drag: the same
+//! temperature rescaling (σ·v, Br²), active height, model force factor and section-end factor
+//! 1 − ℓ(v)/L. The end factor and ℓ are those of the drag of the centred fin; applying them to
+//! the lateral force and to the off-centre drag is an approximation (the ends of the lateral
+//! force are not derived), stated in the README. A centred section (offset 0) uses the centred
+//! table as before, bit for bit.
 
 use super::overlap::Overlap;
 use super::DynamicsError;
 use crate::constants::REFERENCE_TEMPERATURE_C;
-use crate::physics::{BrakeGeometry, DragModel, ForceTable, MeasuredCurve, SectionEndCurve};
+use crate::physics::{
+    BrakeGeometry, DragModel, ForceTable, LateralTable, MeasuredCurve, OffsetModel, SectionEndCurve,
+};
 use crate::scenario::{
     Arrangement, Case, Fin, ForceSource, MagnetDesign, Mount, Scenario, Section,
 };
@@ -36,6 +48,9 @@ pub enum PairLaw {
         section_ends: Arc<SectionEndCurve>,
         /// 1 / length of the section (the magnet element), 1/m.
         inverse_section_length_per_m: f64,
+        /// f_y(v) per m² of pole face at 20 °C of a fin off-centre (None: centred, no lateral
+        /// force).
+        lateral: Option<Arc<LateralTable>>,
     },
     /// Measured force per metre of overlap.
     Measured {
@@ -186,13 +201,18 @@ pub struct TableCache {
     entries: std::sync::Mutex<Vec<CachedTable>>,
 }
 
+/// The identity of a force-table design: every input of [`DragModel::new`] and the fin
+/// offset, bit for bit.
+pub type DesignKey = [u64; 10];
+
 #[derive(Debug, Clone)]
 struct CachedTable {
-    key: [u64; 9],
+    key: DesignKey,
     max_speed_m_s: f64,
     table: Arc<ForceTable>,
     model: Arc<DragModel>,
     section_ends: Arc<SectionEndCurve>,
+    lateral: Option<Arc<LateralTable>>,
 }
 
 impl TableCache {
@@ -203,7 +223,7 @@ impl TableCache {
 
     /// The designs of the tables held: one opaque identity per table, equal for equal designs
     /// (a sweep's shards report theirs, and their union counts the whole sweep's tables).
-    pub fn designs(&self) -> Vec<[u64; 9]> {
+    pub fn designs(&self) -> Vec<DesignKey> {
         self.entries
             .lock()
             .map_or_else(|_| Vec::new(), |e| e.iter().map(|c| c.key).collect())
@@ -214,7 +234,7 @@ impl TableCache {
         self.len() == 0
     }
 
-    fn find(&self, key: &[u64; 9], max_speed_m_s: f64) -> Option<CachedTable> {
+    fn find(&self, key: &DesignKey, max_speed_m_s: f64) -> Option<CachedTable> {
         let entries = self.entries.lock().ok()?;
         entries
             .iter()
@@ -230,8 +250,14 @@ impl TableCache {
     }
 }
 
-/// The identity of a layer-model design: every input of [`DragModel::new`], bit for bit.
-fn design_key(g: &BrakeGeometry, remanence_t: f64, conductivity_s_m: f64) -> [u64; 9] {
+/// The identity of a layer-model design: every input of [`DragModel::new`] and the fin offset,
+/// bit for bit.
+fn design_key(
+    g: &BrakeGeometry,
+    remanence_t: f64,
+    conductivity_s_m: f64,
+    fin_offset_m: f64,
+) -> DesignKey {
     [
         g.pole_pitch_m,
         g.magnet_thickness_m,
@@ -242,11 +268,25 @@ fn design_key(g: &BrakeGeometry, remanence_t: f64, conductivity_s_m: f64) -> [u6
         g.pole_height_m,
         remanence_t,
         conductivity_s_m,
+        fin_offset_m,
     ]
     .map(f64::to_bits)
 }
 
 impl BrakeTables {
+    /// Whether some pair has a lateral force (a section with its fin off-centre).
+    pub fn has_lateral(&self) -> bool {
+        self.pairs.iter().any(|p| {
+            matches!(
+                p.law,
+                PairLaw::Table {
+                    lateral: Some(_),
+                    ..
+                }
+            )
+        })
+    }
+
     /// Builds every pair's force law for the scenario. Pairs with the same fin design and magnet
     /// design share one table; the table reaches the top speed times the largest conductivity
     /// ratio of any case (a cold fin reads the table at v·σ(T)/σ20).
@@ -298,12 +338,26 @@ fn pair_law(
     match &sec.force {
         ForceSource::Model(design) => {
             let g = geometry(fin, design);
-            let key = design_key(&g, design.remanence_t, fin.material.conductivity_s_m);
-            let (table, model, section_ends) = match cache.find(&key, vmax) {
-                Some(c) => (c.table, c.model, c.section_ends),
+            let key = design_key(
+                &g,
+                design.remanence_t,
+                fin.material.conductivity_s_m,
+                design.fin_offset_m,
+            );
+            let (table, model, section_ends, lateral) = match cache.find(&key, vmax) {
+                Some(c) => (c.table, c.model, c.section_ends, c.lateral),
                 None => {
                     let model = Arc::new(model_in(fin, sec, design)?);
-                    let table = Arc::new(ForceTable::build(&model, vmax));
+                    let (table, lateral) = if design.fin_offset_m == 0.0 {
+                        (Arc::new(ForceTable::build(&model, vmax)), None)
+                    } else {
+                        let offset = OffsetModel::new(&model, design.fin_offset_m)
+                            .map_err(|source| DynamicsError::physics(fin, sec, source))?;
+                        (
+                            Arc::new(ForceTable::build_offset(&offset, vmax)),
+                            Some(Arc::new(LateralTable::build(&offset, vmax))),
+                        )
+                    };
                     let section_ends = Arc::new(
                         SectionEndCurve::new(&g, fin.material.conductivity_s_m, vmax)
                             .map_err(|source| DynamicsError::physics(fin, sec, source))?,
@@ -314,8 +368,9 @@ fn pair_law(
                         table: table.clone(),
                         model: model.clone(),
                         section_ends: section_ends.clone(),
+                        lateral: lateral.clone(),
                     });
-                    (table, model, section_ends)
+                    (table, model, section_ends, lateral)
                 }
             };
             Ok(PairLaw::Table {
@@ -324,6 +379,7 @@ fn pair_law(
                 model,
                 section_ends,
                 inverse_section_length_per_m: 1.0 / sec.length_m,
+                lateral,
             })
         }
         ForceSource::Measured(m) => {
@@ -423,28 +479,9 @@ impl ActivePair {
         parts: impl Iterator<Item = (f64, f64)>,
     ) -> f64 {
         match &self.spec.law {
-            PairLaw::Table {
-                table,
-                active_height_m,
-                section_ends,
-                inverse_section_length_per_m,
-                ..
-            } => {
+            PairLaw::Table { table, .. } => {
                 // f = Br²·f_ref(|v|·σ_k)·h_a·(1 − ℓ(v, σ_k)/L)·sign(v) for each part.
-                let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
-                let sum: f64 = parts
-                    .map(|(inv_rho, part)| {
-                        let sigma_ratio = self.reference_resistivity_ratio * inv_rho;
-                        table.force_per_area_pa(scale * inv_rho)
-                            * part
-                            * section_end_factor(
-                                section_ends.total_m_scaled(speed_m_s, sigma_ratio),
-                                *inverse_section_length_per_m,
-                            )
-                    })
-                    .sum();
-                let r2 = self.remanence_ratio * self.remanence_ratio;
-                let f = self.force_factor * r2 * sum * active_height_m;
+                let f = self.table_over_parts(speed_m_s, parts, |u| table.force_per_area_pa(u));
                 if speed_m_s < 0.0 {
                     -f
                 } else {
@@ -457,6 +494,94 @@ impl ActivePair {
                 })
                 .sum(),
         }
+    }
+
+    /// Lateral force on the fin along +y over parts of the overlap as in
+    /// [`ActivePair::force_over_parts_n`], N (even in v; 0 for a centred fin or a measured law).
+    #[inline]
+    pub fn lateral_over_parts_n(
+        &self,
+        speed_m_s: f64,
+        parts: impl Iterator<Item = (f64, f64)>,
+    ) -> f64 {
+        match &self.spec.law {
+            PairLaw::Table {
+                lateral: Some(lateral),
+                ..
+            } => self.table_over_parts(speed_m_s, parts, |u| lateral.lateral_per_area_pa(u)),
+            _ => 0.0,
+        }
+    }
+
+    /// Force·Br²·(force factor)·h_a·Σ per_area(|v|·σ_k)·part·(1 − ℓ(v, σ_k)/L) of a table law
+    /// over `parts` (ρ20/ρ(T), length in m), with `per_area` the reference law per m² at a
+    /// speed (0 for a measured law).
+    #[inline]
+    fn table_over_parts(
+        &self,
+        speed_m_s: f64,
+        parts: impl Iterator<Item = (f64, f64)>,
+        per_area: impl Fn(f64) -> f64,
+    ) -> f64 {
+        let PairLaw::Table {
+            active_height_m,
+            section_ends,
+            inverse_section_length_per_m,
+            ..
+        } = &self.spec.law
+        else {
+            return 0.0;
+        };
+        let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
+        let sum: f64 = parts
+            .map(|(inv_rho, part)| {
+                let sigma_ratio = self.reference_resistivity_ratio * inv_rho;
+                per_area(scale * inv_rho)
+                    * part
+                    * section_end_factor(
+                        section_ends.total_m_scaled(speed_m_s, sigma_ratio),
+                        *inverse_section_length_per_m,
+                    )
+            })
+            .sum();
+        let r2 = self.remanence_ratio * self.remanence_ratio;
+        self.force_factor * r2 * sum * active_height_m
+    }
+
+    /// Lateral force on the fin along +y per metre of overlap at `speed_m_s` with the fin at
+    /// `fin_temp_c`, N/m: the drag's scaling (see [`ActivePair::force_per_m_n`]) applied to the
+    /// lateral table; 0 for a centred fin or a measured law.
+    #[inline]
+    pub fn lateral_per_m_n(&self, speed_m_s: f64, fin_temp_c: f64) -> f64 {
+        let PairLaw::Table {
+            lateral: Some(lateral),
+            active_height_m,
+            section_ends,
+            inverse_section_length_per_m,
+            ..
+        } = &self.spec.law
+        else {
+            return 0.0;
+        };
+        let sigma_ratio = self.reference_resistivity_ratio / self.resistivity_ratio(fin_temp_c);
+        self.force_factor
+            * (lateral.lateral_per_area_scaled_pa(speed_m_s, sigma_ratio, self.remanence_ratio)
+                * active_height_m
+                * section_end_factor(
+                    section_ends.total_m_scaled(speed_m_s, sigma_ratio),
+                    *inverse_section_length_per_m,
+                ))
+    }
+
+    /// Whether the pair has a lateral force (a table law with the fin off-centre).
+    pub fn has_lateral(&self) -> bool {
+        matches!(
+            self.spec.law,
+            PairLaw::Table {
+                lateral: Some(_),
+                ..
+            }
+        )
     }
 
     /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
@@ -517,6 +642,56 @@ pub fn remanence_ratio(beta_per_k: f64, temp_c: f64, reference_c: f64) -> f64 {
     let r = (1.0 + beta_per_k * (temp_c - REFERENCE_TEMPERATURE_C))
         / (1.0 + beta_per_k * (reference_c - REFERENCE_TEMPERATURE_C));
     r.max(0.0)
+}
+
+/// Whether two pairs brake alike wherever the vehicle is: the same force law (the same shared
+/// table and end curve, or the same measured curve, with equal heights and lengths), the same
+/// overlap window and the same case ratios. Only the fin and section indices may differ.
+pub fn same_brake(a: &ActivePair, b: &ActivePair) -> bool {
+    let law = match (&a.spec.law, &b.spec.law) {
+        (
+            PairLaw::Table {
+                table: ta,
+                section_ends: ea,
+                active_height_m: ha,
+                inverse_section_length_per_m: la,
+                ..
+            },
+            PairLaw::Table {
+                table: tb,
+                section_ends: eb,
+                active_height_m: hb,
+                inverse_section_length_per_m: lb,
+                ..
+            },
+        ) => Arc::ptr_eq(ta, tb) && Arc::ptr_eq(ea, eb) && ha == hb && la == lb,
+        (PairLaw::Measured { curve: ca, .. }, PairLaw::Measured { curve: cb, .. }) => {
+            Arc::ptr_eq(ca, cb)
+        }
+        _ => false,
+    };
+    law && a.spec.overlap == b.spec.overlap
+        && a.remanence_ratio == b.remanence_ratio
+        && a.fin_alpha_per_k == b.fin_alpha_per_k
+        && a.reference_resistivity_ratio == b.reference_resistivity_ratio
+        && a.force_factor == b.force_factor
+}
+
+/// Mirror fins of a case: for each fin, the earlier fin (itself not a mirror) whose pairs brake
+/// alike one for one and in order ([`same_brake`]), if any. Two such fins at equal temperatures
+/// take equal forces and equal heat at every point of every run (a twin-fin layout, common
+/// practice on towers and sleds to balance the lateral loads), so callers may evaluate one and
+/// count it twice. Whether their temperatures are equal is the caller's to check.
+pub fn mirror_fins(pairs: &[ActivePair], n_fins: usize) -> Vec<Option<usize>> {
+    let of_fin = |f: usize| pairs.iter().filter(move |p| p.spec.fin == f);
+    let mut mirror = vec![None; n_fins];
+    for j in 0..n_fins {
+        mirror[j] = (0..j).filter(|&i| mirror[i].is_none()).find(|&i| {
+            of_fin(i).count() == of_fin(j).count()
+                && of_fin(i).zip(of_fin(j)).all(|(a, b)| same_brake(a, b))
+        });
+    }
+    mirror
 }
 
 /// The active pairs of a case (disabled sections removed).

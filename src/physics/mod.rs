@@ -48,8 +48,8 @@ pub use ends::{section_end_length_m, section_end_lengths, EndLengths, EndTable, 
 pub use fin_ends::{fin_end_lengths, FinEndLengths, FinEndTable};
 pub use layer::{skin_depth_m, DragModel, HarmonicTerm};
 pub use measured::MeasuredCurve;
-pub use offset::{offset_forces_per_area_pa, OffsetHarmonic};
-pub use table::ForceTable;
+pub use offset::{offset_forces_per_area_pa, OffsetHarmonic, OffsetModel};
+pub use table::{ForceTable, LateralTable};
 pub use uncertainty::{recoil_loss, ModelUncertainty, UncertaintyBand, UncertaintyParts};
 
 use serde::{Deserialize, Serialize};

@@ -251,6 +251,109 @@ impl OffsetHarmonic {
     }
 }
 
+/// The off-centre model of a whole section: the harmonics of a centred [`DragModel`], each
+/// solved with the fin displaced by e and multiplied by the model's finite-height factor
+/// F_n(σv) (see the module note), built once so that a force table can evaluate it cheaply.
+///
+/// Like the centred model it depends on conductivity and speed only through σ·v and on
+/// remanence as Br² (drag and lateral force alike), so one table serves every temperature.
+#[derive(Clone, Debug)]
+pub struct OffsetModel {
+    model: DragModel,
+    fin_offset_m: f64,
+    harmonics: Vec<OffsetHarmonic>,
+}
+
+impl OffsetModel {
+    /// The section of `model` with its fin displaced by `fin_offset_m` (m, |e| < clearance):
+    /// every kept harmonic, each with the conductivity its layer term uses.
+    pub fn new(model: &DragModel, fin_offset_m: f64) -> Result<Self, PhysicsError> {
+        let harmonics = model
+            .harmonics()
+            .iter()
+            .map(|t| {
+                OffsetHarmonic::new(
+                    model.geometry(),
+                    model.remanence_t(),
+                    t.effective_conductivity_s_m,
+                    t.order,
+                    fin_offset_m,
+                )
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        Ok(Self {
+            model: model.clone(),
+            fin_offset_m,
+            harmonics,
+        })
+    }
+
+    /// The centred model it was built from.
+    pub fn model(&self) -> &DragModel {
+        &self.model
+    }
+
+    /// Fin offset e from the centre plane, m.
+    pub fn fin_offset_m(&self) -> f64 {
+        self.fin_offset_m
+    }
+
+    /// Drag per unit area of the fundamental alone (with its finite-height factor), Pa.
+    pub fn drag_per_area_fundamental_pa(&self, speed_m_s: f64) -> f64 {
+        self.sum_over(
+            &self.harmonics[..1.min(self.harmonics.len())],
+            speed_m_s,
+            |h| h.drag_per_area_pa(speed_m_s),
+        )
+    }
+
+    /// Σ F_n(σv)·term(harmonic) over the kept harmonics.
+    fn sum(&self, speed_m_s: f64, term: impl Fn(&OffsetHarmonic) -> f64) -> f64 {
+        self.sum_over(&self.harmonics, speed_m_s, term)
+    }
+
+    /// Σ F_n(σv)·term(harmonic) over `harmonics`.
+    fn sum_over(
+        &self,
+        harmonics: &[OffsetHarmonic],
+        speed_m_s: f64,
+        term: impl Fn(&OffsetHarmonic) -> f64,
+    ) -> f64 {
+        let sigma_v = self.model.conductivity_s_m() * speed_m_s.abs();
+        harmonics
+            .iter()
+            .map(|h| {
+                let f = self
+                    .model
+                    .finite_height_edge(h.order)
+                    .map_or(1.0, |e| e.factor(sigma_v));
+                f * term(h)
+            })
+            .sum()
+    }
+
+    /// Drag per unit area, Pa, at `speed_m_s` (odd in v).
+    pub fn drag_per_area_pa(&self, speed_m_s: f64) -> f64 {
+        self.sum(speed_m_s, |h| h.drag_per_area_pa(speed_m_s))
+    }
+
+    /// Lateral force per unit area, Pa, along +y at `speed_m_s` (even in v; negative for e > 0:
+    /// towards the centre).
+    pub fn lateral_per_area_pa(&self, speed_m_s: f64) -> f64 {
+        self.sum(speed_m_s, |h| h.lateral_per_area_pa(speed_m_s))
+    }
+
+    /// lim_{v→0} drag/v, Pa·s/m (the closed forms of the module note with F_n(0)).
+    pub fn low_speed_drag_pa_s_m(&self) -> f64 {
+        self.sum(0.0, OffsetHarmonic::low_speed_drag_pa_s_m)
+    }
+
+    /// lim_{v→0} lateral/v², Pa·s²/m² (the closed forms of the module note with F_n(0)).
+    pub fn low_speed_lateral_pa_s2_m2(&self) -> f64 {
+        self.sum(0.0, OffsetHarmonic::low_speed_lateral_pa_s2_m2)
+    }
+}
+
 /// Drag and lateral force per unit area (Pa) of the fin of `model` displaced by `fin_offset_m`
 /// (m, |e| < clearance) at `speed_m_s`: the model's kept harmonics, each with the conductivity
 /// its layer term uses and the model's finite-height factor F_n(σv) (see the module note).
@@ -259,23 +362,11 @@ pub fn offset_forces_per_area_pa(
     fin_offset_m: f64,
     speed_m_s: f64,
 ) -> Result<(f64, f64), PhysicsError> {
-    let sigma_v = model.conductivity_s_m() * speed_m_s.abs();
-    let (mut drag, mut lateral) = (0.0, 0.0);
-    for t in model.harmonics() {
-        let h = OffsetHarmonic::new(
-            model.geometry(),
-            model.remanence_t(),
-            t.effective_conductivity_s_m,
-            t.order,
-            fin_offset_m,
-        )?;
-        let f = model
-            .finite_height_edge(t.order)
-            .map_or(1.0, |e| e.factor(sigma_v));
-        drag += f * h.drag_per_area_pa(speed_m_s);
-        lateral += f * h.lateral_per_area_pa(speed_m_s);
-    }
-    Ok((drag, lateral))
+    let m = OffsetModel::new(model, fin_offset_m)?;
+    Ok((
+        m.drag_per_area_pa(speed_m_s),
+        m.lateral_per_area_pa(speed_m_s),
+    ))
 }
 
 #[cfg(test)]
@@ -389,6 +480,51 @@ mod tests {
             assert!((fx / h.drag_per_area_pa(v) - 1.0).abs() < 1e-9, "v={v}");
             assert!((fy / h.lateral_per_area_pa(v) - 1.0).abs() < 1e-9, "v={v}");
         }
+    }
+
+    #[test]
+    fn offset_tables_match_the_model() {
+        // Drag and lateral tables against the off-centre model at 4 001 speeds to 60 m/s
+        // (interval ends included): ≤ 1e-9 relative (the accuracy of the centred table,
+        // `physics::table`); beyond the range the model itself; even/odd in v exactly.
+        let m = DragModel::new(&typical_geometry(), 1.25, 58e6).expect("valid");
+        let o = OffsetModel::new(&m, 2e-3).expect("valid");
+        let (drag, lateral) = (
+            crate::physics::ForceTable::build_offset(&o, 60.0),
+            crate::physics::LateralTable::build(&o, 60.0),
+        );
+        assert_eq!(drag.max_speed_m_s(), 60.0);
+        assert_eq!(lateral.max_speed_m_s(), 60.0);
+        for i in 0..=4000 {
+            let v = 60.0 * f64::from(i) / 4000.0 * (1.0 - 1e-12);
+            let (d, l) = (o.drag_per_area_pa(v), o.lateral_per_area_pa(v));
+            assert!(
+                (drag.force_per_area_pa(v) - d).abs() <= 1e-9 * d.abs(),
+                "v={v}"
+            );
+            assert!(
+                (lateral.lateral_per_area_pa(v) - l).abs() <= 1e-9 * l.abs(),
+                "v={v}"
+            );
+        }
+        assert!(lateral.lateral_per_area_pa(0.0) == 0.0);
+        assert_eq!(
+            lateral.lateral_per_area_pa(-7.0),
+            lateral.lateral_per_area_pa(7.0)
+        );
+        assert_eq!(drag.force_per_area_pa(-7.0), -drag.force_per_area_pa(7.0));
+        assert_eq!(drag.force_per_area_pa(80.0), o.drag_per_area_pa(80.0));
+        assert_eq!(
+            lateral.lateral_per_area_pa(80.0),
+            o.lateral_per_area_pa(80.0)
+        );
+        // Low-speed limits: the closed forms the tables hold at rest, against the model at
+        // 1e-4 m/s (next term O(v²): 1e-6).
+        let v = 1e-4;
+        let d0 = o.drag_per_area_pa(v) / v;
+        assert!((d0 / o.low_speed_drag_pa_s_m() - 1.0).abs() < 1e-6);
+        let l0 = o.lateral_per_area_pa(v) / (v * v);
+        assert!((l0 / o.low_speed_lateral_pa_s2_m2() - 1.0).abs() < 1e-5);
     }
 
     #[test]

@@ -38,11 +38,19 @@
 //! as Br² (see [`super::layer`]), one table serves every fin temperature and magnet temperature:
 //! f(v; σ', Br') = (Br'/Br)²·f(v·σ'/σ; σ, Br), exactly. Beyond V (or where a panel does not
 //! converge, which shortens the table) the exact model is used.
+//!
+//! A fin displaced from the centre plane ([`super::offset`]) has its own drag table
+//! ([`ForceTable::build_offset`], the same construction over the off-centre drag) and a
+//! [`LateralTable`] of its lateral force f_y, which is even in v and quadratic at rest: the
+//! table holds f_y/v² on the same panels and grid, again relative to f_y at every speed. Both
+//! scale with σ·v and Br² as the drag does. Their series are built in one part (the model has no
+//! harmonic split for them).
 
 use super::chebyshev::{
     clenshaw, clenshaw_many, coefficients, coefficients_with, lobatto_point, to_monomial,
 };
 use super::layer::DragModel;
+use super::offset::OffsetModel;
 use std::sync::OnceLock;
 
 /// Degree of the interval polynomials.
@@ -79,6 +87,8 @@ const MAX_OCTAVES: u32 = 40;
 #[derive(Clone, Debug)]
 pub struct ForceTable {
     model: DragModel,
+    /// The off-centre model the table interpolates instead of `model` (None: centred fin).
+    offset: Option<OffsetModel>,
     max_speed_m_s: f64,
     /// 1/v₀, s/m.
     inverse_base_s_m: f64,
@@ -250,20 +260,21 @@ fn refined_series(
     }
 }
 
-/// The series of g on one master panel in [`PARTS`] parts (the fundamental, the third harmonic,
-/// the others together), each at its own number of points: the smaller parts converge with
-/// fewer. `value(part, done, x_j, j, N)` is the part at point j. Each part's tail is held to a
-/// third of the tolerance relative to the fundamental's smallest value (g ≥ g_1: every harmonic
+/// The series of g on one master panel in `parts` parts (for the centred drag [`PARTS`]: the
+/// fundamental, the third harmonic, the others together), each at its own number of points: the
+/// smaller parts converge with fewer. `value(part, done, x_j, j, N)` is the part at point j. Each part's tail is held to a
+/// share of the tolerance relative to the first part's smallest value (g ≥ g_1: every harmonic
 /// dissipates); the trailing coefficients of the sum are then dropped within a quarter of it.
 fn parted_series(
+    parts: usize,
     mut value: impl FnMut(usize, &[f64], f64, usize, usize) -> f64,
     tail: impl Fn(&[f64]) -> f64,
 ) -> Option<Vec<f64>> {
-    let share = MASTER_TOLERANCE / PARTS as f64;
+    let share = MASTER_TOLERANCE / parts.max(1) as f64;
     let first = refined_series(|done, x, j, n| value(0, done, x, j, n), &tail, share, None)?;
     let scale = first.smallest;
     let mut sum = first.coefficients;
-    for part in 1..PARTS {
+    for part in 1..parts {
         let more = refined_series(
             |done, x, j, n| value(part, done, x, j, n),
             &tail,
@@ -311,16 +322,24 @@ fn chopped(mut c: Vec<f64>, allowance: f64) -> Vec<f64> {
     c
 }
 
+/// The function a table interpolates (g = f/v or f_y/v², even in v) in `parts` parts:
+/// `value(part, v)` at v ≥ 0 (the low-speed limit at 0), the parts summing to g.
+struct Law<'a> {
+    parts: usize,
+    value: &'a dyn Fn(usize, f64) -> f64,
+}
+
 /// The even series of g on [0, v_e] (as coefficients in T_k(2x² − 1), x = v/v_e): the points
 /// x_j·v_e with j > N/2 mirror those with N − j (g is even), so only v ≥ 0 is evaluated.
-fn even_series(model: &DragModel, top_m_s: f64) -> Option<Vec<f64>> {
+fn even_series(law: &Law, top_m_s: f64) -> Option<Vec<f64>> {
     let c = parted_series(
+        law.parts,
         |part, done, x, j, n| {
             if 2 * j > n {
                 done.get(n - j).copied().unwrap_or(f64::NAN)
             } else {
                 let v = if 2 * j == n { 0.0 } else { top_m_s * x };
-                part_g(model, part, v)
+                (law.value)(part, v)
             }
         },
         |c| {
@@ -335,7 +354,7 @@ fn even_series(model: &DragModel, top_m_s: f64) -> Option<Vec<f64>> {
 /// reach the tolerance, at most `depth` times; `false` if some part does not converge (the
 /// panels before it are kept).
 fn log_panels(
-    model: &DragModel,
+    law: &Law,
     (lo, hi): (f64, f64),
     inverse_critical_s_m: f64,
     depth: u32,
@@ -344,6 +363,7 @@ fn log_panels(
     let (a, b) = (lo.ln(), hi.ln());
     let (mid, half) = (0.5 * (a + b), 0.5 * (b - a));
     let series = parted_series(
+        law.parts,
         |part, _, x, j, n| {
             let v = if j == 0 {
                 hi
@@ -352,7 +372,7 @@ fn log_panels(
             } else {
                 (mid + half * x).exp()
             };
-            part_g(model, part, v) * weight(v, inverse_critical_s_m)
+            (law.value)(part, v) * weight(v, inverse_critical_s_m)
         },
         |c| {
             let n = c.len() - 1;
@@ -372,8 +392,8 @@ fn log_panels(
         return false;
     }
     let split = (lo * hi).sqrt();
-    log_panels(model, (lo, split), inverse_critical_s_m, depth - 1, out)
-        && log_panels(model, (split, hi), inverse_critical_s_m, depth - 1, out)
+    log_panels(law, (lo, split), inverse_critical_s_m, depth - 1, out)
+        && log_panels(law, (split, hi), inverse_critical_s_m, depth - 1, out)
 }
 
 /// Maps the values at x_j = cos(jπ/5), j = 0 … 5, to the monomial coefficients of their
@@ -465,8 +485,41 @@ impl ForceTable {
     /// poles) ends the table there (see
     /// [`ForceTable::max_speed_m_s`]) and the exact model serves the speeds above it.
     pub fn build(model: &DragModel, max_speed_m_s: f64) -> Self {
+        let law = Law {
+            parts: PARTS,
+            value: &|part, v| part_g(model, part, v),
+        };
+        Self::tabulate(model, None, max_speed_m_s, &law)
+    }
+
+    /// Tabulates the drag of the off-centre model `offset` from 0 to `max_speed_m_s` (m/s) as
+    /// [`ForceTable::build`] does the centred one; its exact model beyond the range is `offset`.
+    pub fn build_offset(offset: &OffsetModel, max_speed_m_s: f64) -> Self {
+        let g = |_: usize, v: f64| {
+            if v > 0.0 {
+                offset.drag_per_area_pa(v) / v
+            } else {
+                offset.low_speed_drag_pa_s_m()
+            }
+        };
+        let law = Law {
+            parts: 1,
+            value: &g,
+        };
+        Self::tabulate(offset.model(), Some(offset.clone()), max_speed_m_s, &law)
+    }
+
+    /// The table of `law` (g = f/v of the drag, or f_y/v² for a [`LateralTable`]) with the
+    /// panels laid out from the critical speed of `model`.
+    fn tabulate(
+        model: &DragModel,
+        offset: Option<OffsetModel>,
+        max_speed_m_s: f64,
+        law: &Law,
+    ) -> Self {
         let mut table = ForceTable {
             model: model.clone(),
+            offset,
             max_speed_m_s: 0.0,
             inverse_base_s_m: 0.0,
             grid_bits: *GRID_BITS.start(),
@@ -498,7 +551,7 @@ impl ForceTable {
         } else {
             base
         };
-        let Some(even) = even_series(model, even_top) else {
+        let Some(even) = even_series(law, even_top) else {
             return table;
         };
         let inverse_critical = if critical > 0.0 {
@@ -514,7 +567,7 @@ impl ForceTable {
         };
         if even_top < max_speed_m_s {
             log_panels(
-                model,
+                law,
                 (even_top, max_speed_m_s),
                 inverse_critical,
                 MAX_SPLITS,
@@ -590,6 +643,15 @@ impl ForceTable {
     pub fn force_per_area_pa(&self, speed_m_s: f64) -> f64 {
         match self.locate(speed_m_s.abs()) {
             Some((c, x, _)) => speed_m_s * horner(c, x),
+            None => self.exact_pa(speed_m_s),
+        }
+    }
+
+    /// The exact drag per unit area the table interpolates, Pa: the off-centre model when it has
+    /// one, else the centred model.
+    fn exact_pa(&self, speed_m_s: f64) -> f64 {
+        match &self.offset {
+            Some(o) => o.drag_per_area_pa(speed_m_s),
             None => self.model.force_per_area_pa(speed_m_s),
         }
     }
@@ -619,7 +681,7 @@ impl ForceTable {
                 // Fourth-order central difference (Abramowitz & Stegun, 1964, 25.3.6) with a
                 // step of 1e-3 of the local speed scale.
                 let h = 1e-3 * v.max(self.model.critical_speed_m_s());
-                let f = |u: f64| self.model.force_per_area_pa(u);
+                let f = |u: f64| self.exact_pa(u);
                 (-f(v + 2.0 * h) + 8.0 * f(v + h) - 8.0 * f(v - h) + f(v - 2.0 * h)) / (12.0 * h)
             }
         }
@@ -649,9 +711,80 @@ impl ForceTable {
         self.coefficients.len()
     }
 
-    /// The model the table was built from (used beyond the table range).
+    /// The model the table was built from (used beyond the table range; the centred one of an
+    /// off-centre table).
     pub fn model(&self) -> &DragModel {
         &self.model
+    }
+
+    /// The off-centre model of a table built by [`ForceTable::build_offset`].
+    pub fn offset(&self) -> Option<&OffsetModel> {
+        self.offset.as_ref()
+    }
+}
+
+/// Tabulated lateral force of an off-centre fin ([`OffsetModel::lateral_per_area_pa`]): the
+/// panels and grid of [`ForceTable`] over g = f_y/v² (even in v, the closed-form low-speed
+/// limit at rest), within 1e-9 relative of the model inside its range and the model beyond it.
+#[derive(Clone, Debug)]
+pub struct LateralTable {
+    /// The panels and grid over f_y/v² (only its grid is read).
+    grid: ForceTable,
+    /// The model, used beyond the grid.
+    offset: OffsetModel,
+}
+
+impl LateralTable {
+    /// Tabulates the lateral force of `offset` from 0 to `max_speed_m_s` (m/s).
+    pub fn build(offset: &OffsetModel, max_speed_m_s: f64) -> Self {
+        let g = |_: usize, v: f64| {
+            if v > 0.0 {
+                offset.lateral_per_area_pa(v) / (v * v)
+            } else {
+                offset.low_speed_lateral_pa_s2_m2()
+            }
+        };
+        let law = Law {
+            parts: 1,
+            value: &g,
+        };
+        Self {
+            grid: ForceTable::tabulate(offset.model(), None, max_speed_m_s, &law),
+            offset: offset.clone(),
+        }
+    }
+
+    /// Lateral force per unit area in Pa along +y at `speed_m_s` (m/s), at the reference
+    /// conductivity and remanence (even in v; negative for a positive offset).
+    #[inline]
+    pub fn lateral_per_area_pa(&self, speed_m_s: f64) -> f64 {
+        let v = speed_m_s.abs();
+        match self.grid.locate(v) {
+            Some((c, x, _)) => v * v * horner(c, x),
+            None => self.offset.lateral_per_area_pa(v),
+        }
+    }
+
+    /// Lateral force per unit area in Pa with conductivity and remanence scaled as in
+    /// [`ForceTable::force_per_area_scaled_pa`]: remanence_ratio²·f_y,ref(v·conductivity_ratio).
+    #[inline]
+    pub fn lateral_per_area_scaled_pa(
+        &self,
+        speed_m_s: f64,
+        conductivity_ratio: f64,
+        remanence_ratio: f64,
+    ) -> f64 {
+        remanence_ratio * remanence_ratio * self.lateral_per_area_pa(speed_m_s * conductivity_ratio)
+    }
+
+    /// Upper end of the tabulated speed range in m/s.
+    pub fn max_speed_m_s(&self) -> f64 {
+        self.grid.max_speed_m_s
+    }
+
+    /// The off-centre model behind the table.
+    pub fn offset(&self) -> &OffsetModel {
+        &self.offset
     }
 }
 

@@ -40,13 +40,24 @@ fn opt(x: Option<f64>) -> String {
     x.map(|v| format!("{v}")).unwrap_or_default()
 }
 
+/// The curve CSV's columns of the lateral force (after [`CURVE_HEADER`], only when some fin is
+/// off-centre).
+pub const CURVE_LATERAL_HEADER: [&str; 2] = ["lateral_per_m_n", "lateral_full_overlap_n"];
+
 /// All curves as one CSV.
 pub fn curves_csv(curves: &[PairCurve]) -> Result<Vec<u8>, csv::Error> {
     let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record(CURVE_HEADER)?;
+    let lateral = curves
+        .iter()
+        .any(|c| c.points.iter().any(|p| p.lateral_per_m_n.is_some()));
+    let mut header = CURVE_HEADER.to_vec();
+    if lateral {
+        header.extend(CURVE_LATERAL_HEADER);
+    }
+    w.write_record(&header)?;
     for c in curves {
         for p in &c.points {
-            w.write_record([
+            let mut row = vec![
                 c.section.clone(),
                 c.fin.clone(),
                 format!("{}", p.speed_m_s),
@@ -59,7 +70,11 @@ pub fn curves_csv(curves: &[PairCurve]) -> Result<Vec<u8>, csv::Error> {
                 opt(p.band_high_fraction),
                 opt(p.force_full_overlap_low_n),
                 opt(p.force_full_overlap_high_n),
-            ])?;
+            ];
+            if lateral {
+                row.extend([opt(p.lateral_per_m_n), opt(p.lateral_full_overlap_n)]);
+            }
+            w.write_record(&row)?;
         }
     }
     w.into_inner().map_err(|e| csv::Error::from(e.into_error()))

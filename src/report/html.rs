@@ -172,18 +172,29 @@ fn verdict_words(v: &Verdict, out: &mut String) {
     }
 }
 
+/// The runs, one row each; the peak lateral force (signed along +y) only when some run has it.
 fn runs_table(runs: &[RunResult], out: &mut String) {
+    let lateral = runs.iter().any(|r| r.peak_lateral.is_some());
     out.push_str(
         "<table id=\"run-table\">\n<tr><th>case</th><th>mass (kg)</th><th>outcome</th>\
          <th>entry speed (m/s)</th><th>exit speed (m/s)</th><th>min speed (m/s)</th>\
          <th>peak deceleration (g)</th><th>peak onset (g/s)</th><th>time in zone (s)</th>\
-         <th>braking energy (kJ)</th></tr>\n",
+         <th>braking energy (kJ)</th>",
     );
+    if lateral {
+        out.push_str("<th>peak lateral force (N, along +y)</th>");
+    }
+    out.push_str("</tr>\n");
     for r in runs {
+        let cell = if lateral {
+            format!("<td>{}</td>", num(r.peak_lateral.map(|p| p.force_n), 1))
+        } else {
+            String::new()
+        };
         let _ = writeln!(
             out,
             "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
-             <td>{}</td><td>{}</td><td>{}</td></tr>",
+             <td>{}</td><td>{}</td><td>{}</td>{cell}</tr>",
             escape(&r.case),
             num(Some(r.mass_kg), 0),
             r.outcome.name(),

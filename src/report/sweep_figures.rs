@@ -1,12 +1,13 @@
 //! Figures of a sweep: per check with values, the empirical distribution function (ECDF) of the
 //! samples' values with the check's limit as a labelled vertical line, and a tornado chart of
 //! the inputs' Spearman rank correlations with it (largest |ρ| on top). Written as SVG and PNG
-//! files `ecdf-<check>.svg|png` and `tornado-<check>.svg|png` (`sweep --figures DIR`).
+//! files `ecdf-<check>.svg|png` and `tornado-<check>.svg|png` (`sweep --figures DIR`); the same
+//! two for the peak lateral force when the sweep has it (`ecdf-peak_lateral_force_n`, no limit).
 
 use super::plots::bars::{render_bars_png, render_bars_svg, Bar, BarChart};
 use super::plots::{render_png, render_svg, Chart, RefLine, Series};
 use super::OutputError;
-use crate::sweep::{CheckSummary, SweepResult};
+use crate::sweep::{CheckSummary, Sensitivity, SweepResult};
 
 /// Size of the sweep figures, px.
 pub const FIGURE_SIZE_PX: (u32, u32) = (900, 540);
@@ -108,14 +109,19 @@ pub fn ecdf(
 /// without sensitivities.
 pub fn tornado_chart(r: &SweepResult, j: usize) -> Option<BarChart> {
     let s = r.summaries.get(j)?;
-    if s.sensitivity.is_empty() {
+    tornado(&s.check.key, "check", &s.sensitivity)
+}
+
+/// The tornado chart of the sensitivities of `key` (a `what`: check or output); `None` without
+/// sensitivities.
+fn tornado(key: &str, what: &str, sensitivity: &[Sensitivity]) -> Option<BarChart> {
+    if sensitivity.is_empty() {
         return None;
     }
     Some(BarChart {
-        title: format!("{}: sensitivity to the inputs", s.check.key),
-        x_label: "Spearman rank correlation ρ with the check's value".into(),
-        bars: s
-            .sensitivity
+        title: format!("{key}: sensitivity to the inputs"),
+        x_label: format!("Spearman rank correlation ρ with the {what}'s value"),
+        bars: sensitivity
             .iter()
             .map(|x| Bar {
                 label: format!("{} {:+.2}", x.variable, x.spearman),
@@ -138,29 +144,62 @@ fn plot(figure: &str, source: super::plots::PlotError) -> OutputError {
     }
 }
 
-/// Every figure of the sweep, in the order of its checks.
+/// Every figure of the sweep, in the order of its checks, then the peak lateral force's.
 pub fn sweep_figures(r: &SweepResult) -> Result<Vec<SweepFigure>, OutputError> {
     let mut out = Vec::new();
     for (j, s) in r.summaries.iter().enumerate() {
-        let part = file_part(&s.check.key);
-        if let Some(c) = ecdf_chart(r, j) {
-            let name = format!("ecdf-{part}");
-            out.push(SweepFigure {
-                svg: render_svg(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
-                png: render_png(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
-                name,
-            });
-        }
-        if let Some(c) = tornado_chart(r, j) {
-            let name = format!("tornado-{part}");
-            out.push(SweepFigure {
-                svg: render_bars_svg(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
-                png: render_bars_png(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
-                name,
-            });
-        }
+        push_pair(
+            &mut out,
+            &file_part(&s.check.key),
+            ecdf_chart(r, j),
+            tornado_chart(r, j),
+        )?;
+    }
+    if let Some(l) = &r.lateral {
+        let values: Vec<f64> = r
+            .samples
+            .iter()
+            .filter_map(|s| s.peak_lateral_force_n)
+            .collect();
+        let title = format!(
+            "{}: {} samples (force on the fins along +y)",
+            l.output,
+            values.len()
+        );
+        push_pair(
+            &mut out,
+            &file_part(&l.output),
+            ecdf(&title, &l.output, &l.unit, None, &values),
+            tornado(&l.output, "output", &l.sensitivity),
+        )?;
     }
     Ok(out)
+}
+
+/// Renders the ECDF and tornado charts of one check or output (those there are).
+fn push_pair(
+    out: &mut Vec<SweepFigure>,
+    part: &str,
+    ecdf: Option<Chart>,
+    tornado: Option<BarChart>,
+) -> Result<(), OutputError> {
+    if let Some(c) = ecdf {
+        let name = format!("ecdf-{part}");
+        out.push(SweepFigure {
+            svg: render_svg(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
+            png: render_png(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
+            name,
+        });
+    }
+    if let Some(c) = tornado {
+        let name = format!("tornado-{part}");
+        out.push(SweepFigure {
+            svg: render_bars_svg(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
+            png: render_bars_png(&c, FIGURE_SIZE_PX).map_err(|e| plot(&name, e))?,
+            name,
+        });
+    }
+    Ok(())
 }
 
 #[cfg(test)]

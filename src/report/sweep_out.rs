@@ -3,7 +3,8 @@
 
 use super::json_out::pretty;
 use super::text::{num, Table};
-use crate::sweep::SweepResult;
+use crate::sweep::stats::Spread;
+use crate::sweep::{Sensitivity, SweepResult};
 
 /// A number with enough digits for any check (`{:.4}` trimmed is too coarse for speeds).
 fn sig(x: f64) -> String {
@@ -12,6 +13,30 @@ fn sig(x: f64) -> String {
     } else {
         format!("{x:.4}")
     }
+}
+
+/// min, P1, P5, P50, P95, P99, max (empty without values).
+fn spread_cells(sp: Option<&Spread>) -> [String; 7] {
+    let q = |f: fn(&Spread) -> f64| sp.map(f).map_or(String::new(), sig);
+    [
+        q(|s| s.min),
+        q(|s| s.p1),
+        q(|s| s.p5),
+        q(|s| s.p50),
+        q(|s| s.p95),
+        q(|s| s.p99),
+        q(|s| s.max),
+    ]
+}
+
+/// The three variables of largest |ρ|, `name +0.97, …`.
+fn most_sensitive(s: &[Sensitivity]) -> String {
+    let top: Vec<String> = s
+        .iter()
+        .take(3)
+        .map(|x| format!("{} {:+.2}", x.variable, x.spearman))
+        .collect();
+    top.join(", ")
 }
 
 /// The terminal summary of a sweep.
@@ -43,31 +68,24 @@ pub fn sweep_text(r: &SweepResult) -> String {
         "most sensitive to (Spearman)",
     ]);
     for s in &r.summaries {
-        let sp = s.spread.as_ref();
-        let q = |f: fn(&crate::sweep::stats::Spread) -> f64| sp.map(f).map_or(String::new(), sig);
-        let top: Vec<String> = s
-            .sensitivity
-            .iter()
-            .take(3)
-            .map(|x| format!("{} {:+.2}", x.variable, x.spearman))
-            .collect();
-        t.row(vec![
+        let mut row = vec![
             s.check.key.clone(),
             s.check.unit.clone(),
             s.check.limit.map_or(String::new(), sig),
-            q(|s| s.min),
-            q(|s| s.p1),
-            q(|s| s.p5),
-            q(|s| s.p50),
-            q(|s| s.p95),
-            q(|s| s.p99),
-            q(|s| s.max),
+        ];
+        row.extend(spread_cells(s.spread.as_ref()));
+        row.extend([
             format!("{:.4}", s.failure.estimate),
             format!("[{:.4}, {:.4}]", s.failure.low, s.failure.high),
-            top.join(", "),
+            most_sensitive(&s.sensitivity),
         ]);
+        t.row(row);
     }
     out.push_str(&t.render());
+    if let Some(l) = &r.lateral {
+        out.push('\n');
+        out.push_str(&output_table(l));
+    }
     let a = &r.any_failure;
     out.push_str(&format!(
         "\nany check failing: {}/{} samples, P = {:.4}, 95 % interval [{:.4}, {:.4}] \
@@ -92,8 +110,29 @@ pub fn sweep_text(r: &SweepResult) -> String {
     out
 }
 
-/// Every sample as CSV: index, input values, pass, run outputs, then each check's value and
-/// pass.
+/// The spread and sensitivities of one run output (the peak lateral force), as a table.
+fn output_table(o: &crate::sweep::OutputSummary) -> String {
+    let mut t = Table::new(&[
+        "output",
+        "unit",
+        "min",
+        "P1",
+        "P5",
+        "P50",
+        "P95",
+        "P99",
+        "max",
+        "most sensitive to (Spearman)",
+    ]);
+    let mut row = vec![o.output.clone(), o.unit.clone()];
+    row.extend(spread_cells(o.spread.as_ref()));
+    row.push(most_sensitive(&o.sensitivity));
+    t.row(row);
+    t.render()
+}
+
+/// Every sample as CSV: index, input values, pass, run outputs (the peak lateral force only
+/// when some sample has one), then each check's value and pass.
 pub fn samples_csv(r: &SweepResult) -> Result<Vec<u8>, csv::Error> {
     let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<String> = vec!["sample".into()];
@@ -107,6 +146,10 @@ pub fn samples_csv(r: &SweepResult) -> Result<Vec<u8>, csv::Error> {
         ]
         .map(String::from),
     );
+    let lateral = r.lateral.is_some();
+    if lateral {
+        header.push("peak_lateral_force_n".into());
+    }
     for k in &r.checks {
         let unit = k.unit.replace('/', "_").replace(' ', "");
         header.push(if unit.is_empty() {
@@ -123,6 +166,9 @@ pub fn samples_csv(r: &SweepResult) -> Result<Vec<u8>, csv::Error> {
         row.extend(s.inputs.iter().map(|x| format!("{x}")));
         row.push(s.pass.to_string());
         row.extend([s.exit_speed_m_s, s.peak_decel_m_s2, s.time_in_zone_s].map(opt));
+        if lateral {
+            row.push(opt(s.peak_lateral_force_n));
+        }
         for c in &s.checks {
             row.push(opt(c.value));
             row.push(c.pass.to_string());

@@ -23,7 +23,9 @@ pub const SINGLE_PASS_NOTE: &str =
 
 /// The table of run results.
 pub fn run_table(results: &[RunResult]) -> String {
-    let mut t = Table::new(&[
+    // The lateral force columns only when some section has its fin off-centre.
+    let lateral = results.iter().any(|r| r.peak_lateral.is_some());
+    let mut head = vec![
         "case",
         "outcome",
         "entry_m_s",
@@ -40,9 +42,13 @@ pub fn run_table(results: &[RunResult]) -> String {
         "residual_j",
         "steps",
         "rhs",
-    ]);
+    ];
+    if lateral {
+        head.extend(["lateral_n", "lateral_at_m", "lateral_at_m_s"]);
+    }
+    let mut t = Table::new(&head);
     for r in results {
-        t.row(vec![
+        let mut cells = vec![
             r.case.clone(),
             r.outcome.name().into(),
             num(r.entry_speed_m_s, 2),
@@ -59,7 +65,16 @@ pub fn run_table(results: &[RunResult]) -> String {
             format!("{:.1e}", r.energy_residual_j),
             r.steps.to_string(),
             r.rhs_evaluations.to_string(),
-        ]);
+        ];
+        if lateral {
+            let p = r.peak_lateral.unwrap_or_default();
+            cells.extend([
+                num(r.peak_lateral.map(|_| p.force_n), 1),
+                num(p.position_m, 2),
+                num(p.speed_m_s, 2),
+            ]);
+        }
+        t.row(cells);
     }
     t.render()
 }
@@ -585,7 +600,8 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
     for g in &groups {
         let p = g[0];
         outln!(out, "\n{} × {}", p.section, p.fin);
-        let mut t = Table::new(&[
+        let lateral = p.points.iter().any(|q| q.lateral_per_m_n.is_some());
+        let mut head = vec![
             "speed_m_s",
             "force_per_area_pa",
             "fundamental_pa",
@@ -594,10 +610,14 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
             "force_full_overlap_n",
             "force_low_n",
             "force_high_n",
-        ]);
+        ];
+        if lateral {
+            head.extend(["lateral_per_m_n", "lateral_full_overlap_n"]);
+        }
+        let mut t = Table::new(&head);
         let stride = (p.points.len() / 25).max(1);
         for q in p.points.iter().step_by(stride) {
-            t.row(vec![
+            let mut row = vec![
                 num(Some(q.speed_m_s), 2),
                 num(q.force_per_area_pa, 1),
                 num(q.force_per_area_fundamental_pa, 1),
@@ -606,7 +626,11 @@ pub fn curve_text(scenario_name: &str, curves: &[PairCurve]) -> String {
                 num(Some(q.force_full_overlap_n), 1),
                 num(q.force_full_overlap_low_n, 1),
                 num(q.force_full_overlap_high_n, 1),
-            ]);
+            ];
+            if lateral {
+                row.extend([num(q.lateral_per_m_n, 1), num(q.lateral_full_overlap_n, 1)]);
+            }
+            t.row(row);
         }
         out.push_str(&t.render());
     }

@@ -13,6 +13,11 @@ pub const LANE: &str = "main";
 /// temperature of conductivities and remanences (20 °C, IEC 60028).
 pub const TEMPERATURE_C: f64 = REFERENCE_TEMPERATURE_C;
 
+/// Fin offset of a magnet section without `fin_offset`, m: the fin centred between the rows (as
+/// designed; the offset is a tolerance or a failure to study). The writer leaves a zero offset
+/// out, so a written centred design reads as before.
+pub const FIN_OFFSET_M: f64 = 0.0;
+
 /// Reversible temperature coefficient of remanence without `remanence_temp_coeff`, 1/K: sintered
 /// NdFeB is about −0.12 %/K (common practice, manufacturers' grade tables).
 pub const REMANENCE_TEMP_COEFF_PER_K: f64 = -0.0012;

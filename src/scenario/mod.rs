@@ -84,10 +84,13 @@ pub struct MagnetDesign {
     pub magnet_fill: f64,
     /// Remanence at 20 °C, T.
     pub remanence_t: f64,
-    /// Magnet face to fin face, each side, m.
+    /// Magnet face to fin face, each side, m (with the fin centred).
     pub clearance_m: f64,
     /// Magnet extent across the fin, m.
     pub pole_height_m: f64,
+    /// Fin displacement from the centre plane between the rows, m (|e| < clearance; positive
+    /// towards the row on the +y side, the clearances then c − e there and c + e opposite).
+    pub fin_offset_m: f64,
 }
 
 /// A measured force–speed table.

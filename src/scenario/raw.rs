@@ -313,6 +313,11 @@ pub struct RawSection {
     #[serde(skip_serializing_if = "Option::is_none")]
     #[schemars(with = "Option<k::Length>")]
     pub clearance: Option<Q>,
+    /// Fin displacement from the centre plane (default 0; positive towards the +y row, less
+    /// than the clearance in size).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    #[schemars(with = "Option<k::Length>")]
+    pub fin_offset: Option<Q>,
     /// Magnet extent across the fin.
     #[serde(skip_serializing_if = "Option::is_none")]
     #[schemars(with = "Option<k::Length>")]

@@ -20,6 +20,13 @@ pub struct Sweep {
     pub inputs: Vec<Uncertain>,
 }
 
+impl Sweep {
+    /// Whether it draws `input`.
+    pub fn draws(&self, input: SweepInput) -> bool {
+        self.inputs.iter().any(|u| u.input == input)
+    }
+}
+
 /// How samples are drawn.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -66,6 +73,8 @@ pub enum SweepInput {
     Position,
     /// Clearance of each magnet section (model sections), m.
     Clearance,
+    /// Fin offset from the centre plane in each magnet section (model sections), m.
+    FinOffset,
     /// Remanence at 20 °C of each magnet section (model sections), T.
     Remanence,
     /// Conductivity at 20 °C of each fin's material, S/m.
@@ -80,11 +89,12 @@ pub enum SweepInput {
 
 impl SweepInput {
     /// Every input, in the order of the block and of the sample columns.
-    pub const ALL: [SweepInput; 9] = [
+    pub const ALL: [SweepInput; 10] = [
         SweepInput::Mass,
         SweepInput::Speed,
         SweepInput::Position,
         SweepInput::Clearance,
+        SweepInput::FinOffset,
         SweepInput::Remanence,
         SweepInput::FinConductivity,
         SweepInput::FinTemp,
@@ -99,6 +109,7 @@ impl SweepInput {
             SweepInput::Speed => "speed",
             SweepInput::Position => "position",
             SweepInput::Clearance => "clearance",
+            SweepInput::FinOffset => "fin_offset",
             SweepInput::Remanence => "remanence",
             SweepInput::FinConductivity => "fin_conductivity",
             SweepInput::FinTemp => "fin_temp",
@@ -114,6 +125,7 @@ impl SweepInput {
             SweepInput::Speed => "start_speed_m_s",
             SweepInput::Position => "start_position_m",
             SweepInput::Clearance => "clearance_m",
+            SweepInput::FinOffset => "fin_offset_m",
             SweepInput::Remanence => "remanence_t",
             SweepInput::FinConductivity => "fin_conductivity_s_m",
             SweepInput::FinTemp => "fin_temp_c",
@@ -127,7 +139,7 @@ impl SweepInput {
         match self {
             SweepInput::Mass => Kind::Mass,
             SweepInput::Speed => Kind::Speed,
-            SweepInput::Position | SweepInput::Clearance => Kind::Length,
+            SweepInput::Position | SweepInput::Clearance | SweepInput::FinOffset => Kind::Length,
             SweepInput::Remanence => Kind::FluxDensity,
             SweepInput::FinConductivity => Kind::Conductivity,
             SweepInput::FinTemp | SweepInput::MagnetTemp => Kind::Temperature,
@@ -139,7 +151,19 @@ impl SweepInput {
     pub fn per_element(self) -> bool {
         matches!(
             self,
-            SweepInput::Clearance | SweepInput::Remanence | SweepInput::FinConductivity
+            SweepInput::Clearance
+                | SweepInput::FinOffset
+                | SweepInput::Remanence
+                | SweepInput::FinConductivity
+        )
+    }
+
+    /// Whether it is a value of each model section's magnet design (clearance, fin offset,
+    /// remanence).
+    pub fn of_sections(self) -> bool {
+        matches!(
+            self,
+            SweepInput::Clearance | SweepInput::FinOffset | SweepInput::Remanence
         )
     }
 }

@@ -310,6 +310,9 @@ impl Writer<'_> {
             )),
             clearance: d.and_then(|d| design("clearance", Kind::Length, d.clearance_m)),
             pole_height: d.and_then(|d| design("pole_height", Kind::Length, d.pole_height_m)),
+            fin_offset: d
+                .filter(|d| d.fin_offset_m != defaults::FIN_OFFSET_M)
+                .and_then(|d| design("fin_offset", Kind::Length, d.fin_offset_m)),
             grade: grade.map(|g| spanned(g.name())),
             force_curve,
             lane: None,

@@ -243,7 +243,15 @@ impl Study {
                 .map(|c| simulate_case(s, &self.tables, c, options))
                 .collect::<Result<Vec<_>, _>>()?,
         )?;
+        // A sweep drawing fin offsets reports the nominal lateral force too (0 when centred).
+        let offset_drawn = s
+            .sweep
+            .as_ref()
+            .is_some_and(|w| w.draws(crate::scenario::sweep::SweepInput::FinOffset));
         for r in &mut runs {
+            if offset_drawn {
+                r.peak_lateral.get_or_insert_with(Default::default);
+            }
             for (f, h) in s.fins.iter().zip(&r.fins) {
                 let what = format!("fin '{}'", f.name);
                 r.warnings

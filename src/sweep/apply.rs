@@ -31,7 +31,10 @@ pub fn sample_case(base: &Case, vars: &[Variable], values: &[f64], index: usize)
             SweepInput::FinTemp => c.fin_temp_c = *x,
             SweepInput::MagnetTemp => c.magnet_temp_c = *x,
             SweepInput::ForceFactor => c.force_factor = *x,
-            SweepInput::Clearance | SweepInput::Remanence | SweepInput::FinConductivity => {}
+            SweepInput::Clearance
+            | SweepInput::FinOffset
+            | SweepInput::Remanence
+            | SweepInput::FinConductivity => {}
         }
     }
     c
@@ -55,6 +58,7 @@ pub fn sample_scenario(base: &Scenario, vars: &[Variable], values: &[f64], case:
             if let Some(ForceSource::Model(d)) = s.sections.get_mut(k).map(|sec| &mut sec.force) {
                 match v.input {
                     SweepInput::Clearance => d.clearance_m = *x,
+                    SweepInput::FinOffset => d.fin_offset_m = *x,
                     SweepInput::Remanence => d.remanence_t = *x,
                     _ => {}
                 }

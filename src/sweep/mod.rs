@@ -91,6 +91,10 @@ pub struct SampleResult {
     pub peak_decel_m_s2: Option<f64>,
     /// Time in the zone, s.
     pub time_in_zone_s: Option<f64>,
+    /// Peak lateral force on the fins, N (signed along +y; only when some fin is off-centre,
+    /// [`crate::dynamics::LateralPeak`]).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub peak_lateral_force_n: Option<f64>,
     /// One entry per [`CheckKey`] (a check the sample's verdict lacks counts as failed).
     pub checks: Vec<SampleCheck>,
     /// Smallest margin relative to its limit over the checks (−∞ for a failed check without a
@@ -105,6 +109,19 @@ pub struct Sensitivity {
     pub variable: String,
     /// Spearman's rank correlation of the variable and the check's value.
     pub spearman: f64,
+}
+
+/// The statistics of one run output (not a check: it has no limit) over the samples.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct OutputSummary {
+    /// The output's key (`peak_lateral_force_n`).
+    pub output: String,
+    /// Its unit.
+    pub unit: String,
+    /// Spread of its value over the samples that have one.
+    pub spread: Option<Spread>,
+    /// Variables by decreasing |ρ|.
+    pub sensitivity: Vec<Sensitivity>,
 }
 
 /// The statistics of one check over the samples.
@@ -139,6 +156,10 @@ pub struct SweepResult {
     pub samples: Vec<SampleResult>,
     /// Per check statistics, in the order of `checks`.
     pub summaries: Vec<CheckSummary>,
+    /// The peak lateral force over the samples (only when some fin is off-centre or the
+    /// sweep draws `fin_offset`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub lateral: Option<OutputSummary>,
     /// Probability that a sample fails any check.
     pub any_failure: Proportion,
     /// Index of the worst sample.
@@ -218,6 +239,9 @@ pub struct JudgedSample {
     pub peak_decel_m_s2: Option<f64>,
     /// Time in the zone, s.
     pub time_in_zone_s: Option<f64>,
+    /// Peak lateral force on the fins, N (only when some fin is off-centre).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub peak_lateral_force_n: Option<f64>,
     /// Its verdict's rows, in order.
     pub rows: Vec<JudgedRow>,
 }
@@ -236,6 +260,8 @@ pub fn judge_samples(
     let base_case = apply::base_case(scenario, sweep)?;
     let vars = &design.variables;
     let values = design.values.get(range.clone()).unwrap_or(&[]);
+    // A sample drawing a zero offset everywhere has no lateral table: its lateral force is 0.
+    let offset_drawn = sweep.draws(crate::scenario::sweep::SweepInput::FinOffset);
     progress.stage("sweeping samples", Some(values.len() as u64));
     let judged = values
         .par_iter()
@@ -269,6 +295,9 @@ pub fn judge_samples(
                 exit_speed_m_s: run.and_then(|r| r.exit_speed_m_s),
                 peak_decel_m_s2: run.and_then(|r| r.peak_decel_m_s2),
                 time_in_zone_s: run.and_then(|r| r.time_in_zone_s),
+                peak_lateral_force_n: run
+                    .and_then(|r| r.peak_lateral.map(|p| p.force_n))
+                    .or(offset_drawn.then_some(0.0)),
                 rows,
             })
         })
@@ -314,12 +343,16 @@ pub fn assemble(
                 exit_speed_m_s: j.exit_speed_m_s,
                 peak_decel_m_s2: j.peak_decel_m_s2,
                 time_in_zone_s: j.time_in_zone_s,
+                peak_lateral_force_n: j.peak_lateral_force_n,
                 score: score(&keys, &checks),
                 checks,
             }
         })
         .collect();
     let summaries = summarise(&keys, vars, &samples)?;
+    let lateral = output_summary("peak_lateral_force_n", "N", vars, &samples, |s| {
+        s.peak_lateral_force_n
+    });
     let failing = samples.iter().filter(|s| !s.pass).count();
     let any_failure =
         proportion(failing, samples.len(), CONFIDENCE).ok_or(SweepError::NoSamples)?;
@@ -346,6 +379,7 @@ pub fn assemble(
         checks: keys,
         samples,
         summaries,
+        lateral,
         any_failure,
         worst,
         worst_yaml,
@@ -427,28 +461,64 @@ fn summarise(
                 .collect();
             let values: Vec<f64> = with_value.iter().map(|(_, v)| *v).collect();
             let failing = samples.iter().filter(|s| !s.checks[j].pass).count();
-            let mut sensitivity: Vec<Sensitivity> = vars
-                .iter()
-                .enumerate()
-                .filter_map(|(m, var)| {
-                    let x: Vec<f64> = with_value
-                        .iter()
-                        .map(|(i, _)| samples[*i].inputs[m])
-                        .collect();
-                    spearman(&x, &values).map(|rho| Sensitivity {
-                        variable: var.name.clone(),
-                        spearman: rho,
-                    })
-                })
-                .collect();
-            sensitivity.sort_by(|a, b| b.spearman.abs().total_cmp(&a.spearman.abs()));
             Ok(CheckSummary {
                 check: k.clone(),
                 spread: Spread::of(&values),
                 failure: proportion(failing, samples.len(), CONFIDENCE)
                     .ok_or(SweepError::NoSamples)?,
-                sensitivity,
+                sensitivity: sensitivities(vars, samples, &with_value),
             })
         })
         .collect()
+}
+
+/// Spearman's ρ of every variable against the values (sample index, value), by decreasing |ρ|.
+fn sensitivities(
+    vars: &[Variable],
+    samples: &[SampleResult],
+    with_value: &[(usize, f64)],
+) -> Vec<Sensitivity> {
+    let values: Vec<f64> = with_value.iter().map(|(_, v)| *v).collect();
+    let mut sensitivity: Vec<Sensitivity> = vars
+        .iter()
+        .enumerate()
+        .filter_map(|(m, var)| {
+            let x: Vec<f64> = with_value
+                .iter()
+                .map(|(i, _)| samples[*i].inputs[m])
+                .collect();
+            spearman(&x, &values).map(|rho| Sensitivity {
+                variable: var.name.clone(),
+                spearman: rho,
+            })
+        })
+        .collect();
+    sensitivity.sort_by(|a, b| b.spearman.abs().total_cmp(&a.spearman.abs()));
+    sensitivity
+}
+
+/// The spread and sensitivities of a run output over the samples that have it (None when no
+/// sample has it).
+fn output_summary(
+    output: &str,
+    unit: &str,
+    vars: &[Variable],
+    samples: &[SampleResult],
+    value: impl Fn(&SampleResult) -> Option<f64>,
+) -> Option<OutputSummary> {
+    let with_value: Vec<(usize, f64)> = samples
+        .iter()
+        .enumerate()
+        .filter_map(|(i, s)| value(s).map(|v| (i, v)))
+        .collect();
+    if with_value.is_empty() {
+        return None;
+    }
+    let values: Vec<f64> = with_value.iter().map(|(_, v)| *v).collect();
+    Some(OutputSummary {
+        output: output.to_string(),
+        unit: unit.to_string(),
+        spread: Spread::of(&values),
+        sensitivity: sensitivities(vars, samples, &with_value),
+    })
 }

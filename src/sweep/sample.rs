@@ -49,7 +49,7 @@ pub fn variables(s: &Scenario, sweep: &Sweep) -> Vec<Variable> {
             distribution: u.distribution.clone(),
         };
         match (u.input, u.scope) {
-            (SweepInput::Clearance | SweepInput::Remanence, Scope::Each) => {
+            (i, Scope::Each) if i.of_sections() => {
                 for (k, sec) in s.sections.iter().enumerate() {
                     if sec.design().is_some() {
                         let name = format!("{}[{}]", u.input.column(), sec.name);
@@ -57,7 +57,7 @@ pub fn variables(s: &Scenario, sweep: &Sweep) -> Vec<Variable> {
                     }
                 }
             }
-            (SweepInput::Clearance | SweepInput::Remanence, Scope::All) => {
+            (i, Scope::All) if i.of_sections() => {
                 out.push(one(Target::AllSections, u.input.column().into()));
             }
             (SweepInput::FinConductivity, Scope::Each) => {
@@ -199,7 +199,10 @@ pub fn sample_values(sweep: &Sweep, vars: &[Variable]) -> Vec<Vec<f64>> {
 pub fn changes_design(u: &Uncertain) -> bool {
     matches!(
         u.input,
-        SweepInput::Clearance | SweepInput::Remanence | SweepInput::FinConductivity
+        SweepInput::Clearance
+            | SweepInput::FinOffset
+            | SweepInput::Remanence
+            | SweepInput::FinConductivity
     )
 }
 

@@ -131,7 +131,7 @@ pub struct ShardFile {
     /// The scenario, self-contained (limits inline), with its `sweep:` block.
     pub scenario_yaml: String,
     /// Identities of the force-table designs the shard's samples used.
-    pub table_designs: Vec<[u64; 9]>,
+    pub table_designs: Vec<crate::dynamics::model::DesignKey>,
     /// The slice's samples, in order.
     pub judged: Vec<JudgedSample>,
 }

@@ -46,7 +46,7 @@ pub fn cool_c(temp_c: f64, ambient_c: f64, interval_s: f64, tau_s: f64) -> f64 {
 pub fn cool_state(state: &mut FinState, ambient_c: f64, interval_s: f64, tau_s: f64) {
     match state {
         FinState::Height(p) => {
-            super::height::Modes::new(p.temps_c.len()).step(p, None, interval_s, tau_s, ambient_c)
+            super::height::Modes::of(p.temps_c.len()).step(p, None, interval_s, tau_s, ambient_c)
         }
         FinState::Field(f) => f
             .temps_c

@@ -18,8 +18,7 @@
 //! The magnets face the fins for the lift's time in the brake as well, which the magnets'
 //! warming estimate adds to the pass's time in the zone.
 
-use super::height::height_weights;
-use super::pass::{fin_capacity, FinState};
+use super::pass::{deposit_weights, FinCapacity, FinState};
 use super::ThermalError;
 use crate::dynamics::model::{active_pairs, ActivePair};
 use crate::dynamics::BrakeTables;
@@ -170,6 +169,7 @@ pub fn apply_lift(
     case: &Case,
     states: &mut [FinState],
     speed: &LiftSpeed,
+    caps: &[FinCapacity],
 ) -> Result<LiftPass, ThermalError> {
     let speeds: Vec<f64> = match speed {
         LiftSpeed::Constant(v) => vec![*v],
@@ -217,6 +217,7 @@ pub fn apply_lift(
         })
         .collect();
     let mut energy_j = 0.0;
+    let states_len = states.len();
     for (i, state) in states.iter_mut().enumerate() {
         let mine: Vec<(&ActivePair, f64)> = with_t
             .iter()
@@ -231,14 +232,17 @@ pub fn apply_lift(
                 .map(|(p, t)| pair_heat_along_j(p, speed, &|v| p.force_per_m_n(v, *t), c0, c1))
                 .sum()
         };
-        let cap = fin_capacity(&scenario.fins[i], i, tables)?;
+        let Some(cap) = caps.get(i) else {
+            return Err(ThermalError::Input(format!(
+                "{} fin capacities for {} fins",
+                caps.len(),
+                states_len
+            )));
+        };
         match state {
             FinState::Height(profile) => {
                 let e = heat_in(f64::NEG_INFINITY, f64::INFINITY);
-                let weights = match &cap.sheet {
-                    Some(sheet) => height_weights(profile, &sheet.from_edge()),
-                    None => height_weights(profile, &|_| 1.0),
-                };
+                let weights = deposit_weights(profile, cap);
                 let n = profile.temps_c.len() as f64;
                 for (t, w) in profile.temps_c.iter_mut().zip(&weights) {
                     *t += w * n * e / cap.whole_j_k;
@@ -271,6 +275,7 @@ pub fn apply_lift(
 mod tests {
     use super::*;
     use crate::dynamics::BrakeTables;
+    use crate::thermal::pass::{fin_capacities, fin_capacity};
 
     #[test]
     fn drag_times_travel_is_the_deposited_heat() {
@@ -319,6 +324,7 @@ mod tests {
             &s.cases[0],
             &mut states,
             &LiftSpeed::Constant(v),
+            &fin_capacities(&s, &tables).unwrap(),
         )
         .unwrap();
         assert!((lift.energy_j / heat - 1.0).abs() < 1e-9);
@@ -371,8 +377,17 @@ mod tests {
         let mut a = crate::thermal::pass::uniform_states(&s, 40.0, 0.05);
         let mut b = a.clone();
         let flat = LiftSpeed::Profile(vec![(-50.0, v), (3.0, v), (60.0, v)]);
-        let la = apply_lift(&s, &tables, &s.cases[0], &mut a, &LiftSpeed::Constant(v)).unwrap();
-        let lb = apply_lift(&s, &tables, &s.cases[0], &mut b, &flat).unwrap();
+        let caps = fin_capacities(&s, &tables).unwrap();
+        let la = apply_lift(
+            &s,
+            &tables,
+            &s.cases[0],
+            &mut a,
+            &LiftSpeed::Constant(v),
+            &caps,
+        )
+        .unwrap();
+        let lb = apply_lift(&s, &tables, &s.cases[0], &mut b, &flat, &caps).unwrap();
         assert!((la.energy_j / lb.energy_j - 1.0).abs() < 1e-9);
         assert!((la.peak_drag_n / lb.peak_drag_n - 1.0).abs() < 1e-9);
         assert!((la.time_in_brake_s / lb.time_in_brake_s - 1.0).abs() < 1e-9);
@@ -403,7 +418,8 @@ mod tests {
             (lo + 0.9 * span, 1.0),
         ]);
         let mut states = crate::thermal::pass::uniform_states(&s, 40.0, 0.05);
-        let lift = apply_lift(&s, &tables, case, &mut states, &profile).unwrap();
+        let caps = fin_capacities(&s, &tables).unwrap();
+        let lift = apply_lift(&s, &tables, case, &mut states, &profile, &caps).unwrap();
         let n = (span / 5e-4).ceil() as usize;
         let dx = span / n as f64;
         let f = |x: f64| drag_n(&with_t, profile.at(x), x);

@@ -257,6 +257,7 @@ pub fn heat_case(
         .map(|f| duty.map(|d| time_constant_s(f, d.film_coefficient_w_m2_k)))
         .collect();
     let n_fins = scenario.fins.len();
+    let caps = pass::fin_capacities(scenario, tables)?;
     let mut states = pass::uniform_states(scenario, case.fin_temp_c, options.cell_m);
     let mut last_start = states.clone();
     let mut cycles: Vec<CycleRow> = Vec::new();
@@ -272,15 +273,16 @@ pub fn heat_case(
     for cycle in 1..=max_cycles {
         let heat = match (&uncoupled_cache, options.coupling) {
             // Without coupling every pass is the same run; only the bookkeeping differs.
-            (Some(c), false) => rebook(c, &states, scenario, tables)?,
+            (Some(c), false) => rebook(c, &states, &caps),
             _ => {
-                let h = run_pass(
+                let h = pass::run_pass_with(
                     scenario,
                     tables,
                     case,
                     &states,
                     options.coupling,
                     options.sample_dt_s,
+                    &caps,
                 )?;
                 if !options.coupling {
                     uncoupled_cache = Some(h.clone());
@@ -333,6 +335,7 @@ pub fn heat_case(
                 case,
                 &mut states,
                 speed,
+                &caps,
             )?);
         }
         if stop_at_steady && case_steady.is_some() {
@@ -357,12 +360,6 @@ pub fn heat_case(
             "no steady state within {max_cycles} cycles (peak still changing by 0.1 K or more per cycle)"
         ));
     }
-    let caps: Vec<pass::FinCapacity> = scenario
-        .fins
-        .iter()
-        .enumerate()
-        .map(|(i, f)| pass::fin_capacity(f, i, tables))
-        .collect::<Result<_, _>>()?;
     let fins: Vec<FinHeatResult> = scenario
         .fins
         .iter()
@@ -468,22 +465,14 @@ pub fn heat_case(
 }
 
 /// The same pass with its heat laid onto new start states (no coupling: the run is unchanged).
-fn rebook(
-    c: &PassHeat,
-    states: &[FinState],
-    scenario: &Scenario,
-    tables: &BrakeTables,
-) -> Result<PassHeat, ThermalError> {
+fn rebook(c: &PassHeat, states: &[FinState], caps: &[pass::FinCapacity]) -> PassHeat {
     let fins = c
         .fins
         .iter()
         .zip(states)
-        .enumerate()
-        .map(|(i, (f, s))| match s {
-            FinState::Height(p) => {
-                let cap = pass::fin_capacity(&scenario.fins[i], i, tables)?;
-                Ok(pass::height_pass(&c.run, p, f.energy_j, &cap))
-            }
+        .zip(caps)
+        .map(|((f, s), cap)| match s {
+            FinState::Height(p) => pass::height_pass(&c.run, p, f.energy_j, cap),
             FinState::Field(field) => {
                 let mut e = field.clone();
                 e.temps_c
@@ -491,18 +480,18 @@ fn rebook(
                     .zip(&f.rise_k)
                     .for_each(|(t, r)| *t += r);
                 let peak_c = e.temps_c.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-                Ok(pass::FinPass {
+                pass::FinPass {
                     end: FinState::Field(e),
                     peak_c,
                     ..f.clone()
-                })
+                }
             }
         })
-        .collect::<Result<_, ThermalError>>()?;
-    Ok(PassHeat {
+        .collect();
+    PassHeat {
         run: c.run.clone(),
         fins,
-    })
+    }
 }
 
 /// Run options that start a case from the given fin states: each vehicle fin at its lumped

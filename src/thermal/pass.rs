@@ -32,7 +32,7 @@ use super::height::{diffusivity_m2_s, height_weights, HeightProfile, Modes, HEIG
 use super::sheet::SheetLoss;
 use super::ThermalError;
 use crate::dynamics::integrate::TempField;
-use crate::dynamics::model::{active_pairs, ActivePair, PairLaw};
+use crate::dynamics::model::{active_pairs, mirror_fins, ActivePair, PairLaw};
 use crate::dynamics::{simulate_case, BrakeTables, RunOptions, RunResult, Sampling};
 use crate::scenario::{Case, Fin, Mount, Scenario};
 
@@ -68,7 +68,7 @@ impl FinState {
 }
 
 /// Heat capacity data of a fin.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct FinCapacity {
     /// Lumped heat capacity of the whole fin, J/K (vehicle fins).
     pub whole_j_k: f64,
@@ -79,6 +79,9 @@ pub struct FinCapacity {
     pub heated_height_m: f64,
     /// The loss distribution across the height (None: even over the fin height).
     pub sheet: Option<SheetLoss>,
+    /// Shares of a pass's heat across the [`HEIGHT_CELLS`] cells of a vehicle fin's height
+    /// ([`height_weights`] of the loss distribution), computed once; empty for track fins.
+    pub height_weights: Vec<f64>,
 }
 
 /// Heat capacities of a fin: whole fin and heated strip. The loss across the height is the
@@ -116,12 +119,72 @@ pub fn fin_capacity(
             fin.name
         )));
     }
+    let height_weights = match fin.mount {
+        Mount::Vehicle { .. } => usual_weights(fin.height_m, sheet.as_ref()),
+        Mount::Track { .. } => Vec::new(),
+    };
     Ok(FinCapacity {
         whole_j_k,
         per_m_j_m_k,
         heated_height_m,
         sheet,
+        height_weights,
     })
+}
+
+/// The fin capacities of every fin of the scenario, in order.
+pub fn fin_capacities(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+) -> Result<Vec<FinCapacity>, ThermalError> {
+    scenario
+        .fins
+        .iter()
+        .enumerate()
+        .map(|(i, f)| fin_capacity(f, i, tables))
+        .collect()
+}
+
+/// [`sheet_weights`] for a profile of `height_m` in [`HEIGHT_CELLS`] cells, remembered for the
+/// process: every heat study of a plan or a sweep asks for the same few fins again.
+fn usual_weights(height_m: f64, sheet: Option<&SheetLoss>) -> Vec<f64> {
+    type Known = Vec<((f64, Option<SheetLoss>), Vec<f64>)>;
+    static KNOWN: std::sync::Mutex<Known> = std::sync::Mutex::new(Vec::new());
+    let key = (height_m, sheet.copied());
+    if let Ok(known) = KNOWN.lock() {
+        if let Some((_, w)) = known.iter().find(|(k, _)| *k == key) {
+            return w.clone();
+        }
+    }
+    let profile = HeightProfile::uniform(height_m, 0.0, HEIGHT_CELLS, 0.0);
+    let weights = sheet_weights(&profile, sheet);
+    if let Ok(mut known) = KNOWN.lock() {
+        // A bounded memory: a scenario has a handful of fin designs.
+        if known.len() < 64 {
+            known.push((key, weights.clone()));
+        }
+    }
+    weights
+}
+
+/// Shares of a deposit across the cells of `profile` for the loss distribution `sheet` (even
+/// over the height without one).
+fn sheet_weights(profile: &HeightProfile, sheet: Option<&SheetLoss>) -> Vec<f64> {
+    match sheet {
+        Some(sheet) => height_weights(profile, &sheet.from_edge()),
+        None => height_weights(profile, &|_| 1.0),
+    }
+}
+
+/// Shares of a pass's heat across the cells of `profile`, a vehicle fin of capacity `cap`: the
+/// capacity's weights when they are for as many cells (a profile of the fin's height), else
+/// computed for this profile.
+pub fn deposit_weights(profile: &HeightProfile, cap: &FinCapacity) -> Vec<f64> {
+    if cap.height_weights.len() == profile.temps_c.len() {
+        cap.height_weights.clone()
+    } else {
+        sheet_weights(profile, cap.sheet.as_ref())
+    }
 }
 
 /// A uniform starting state for every fin of the scenario.
@@ -191,40 +254,69 @@ pub fn run_pass(
             n
         )));
     }
-    let caps: Vec<FinCapacity> = scenario
-        .fins
-        .iter()
-        .enumerate()
-        .map(|(i, f)| fin_capacity(f, i, tables))
-        .collect::<Result<_, _>>()?;
+    let caps = fin_capacities(scenario, tables)?;
+    run_pass_with(scenario, tables, case, states, coupling, sample_dt_s, &caps)
+}
+
+/// [`run_pass`] with the fins' capacities computed beforehand ([`fin_capacities`]: they do not
+/// change from pass to pass).
+pub fn run_pass_with(
+    scenario: &Scenario,
+    tables: &BrakeTables,
+    case: &Case,
+    states: &[FinState],
+    coupling: bool,
+    sample_dt_s: f64,
+    caps: &[FinCapacity],
+) -> Result<PassHeat, ThermalError> {
+    let n = scenario.fins.len();
+    if states.len() != n || caps.len() != n {
+        return Err(ThermalError::Input(format!(
+            "{} fin states and {} capacities for {} fins",
+            states.len(),
+            caps.len(),
+            n
+        )));
+    }
     let options = pass_options(case, states, coupling, sample_dt_s);
     let run = simulate_case(scenario, tables, case, &options)?;
     let pairs = active_pairs(scenario, tables, case);
-    let fins = states
-        .iter()
-        .enumerate()
-        .map(|(i, state)| {
-            let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
-            match state {
-                FinState::Height(p0) => height_pass(&run, p0, energy_j, &caps[i]),
-                FinState::Field(field) => {
-                    let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
-                    let track = TrackFin {
-                        length_m: scenario.fins[i].length_m,
-                        capacity: &caps[i],
-                    };
-                    field_pass(
-                        &run,
-                        &mine,
-                        field,
-                        energy_j,
-                        track,
-                        (!coupling).then_some(case.fin_temp_c),
-                    )
-                }
+    let mirror = mirror_fins(&pairs, n);
+    let mut fins: Vec<FinPass> = Vec::with_capacity(n);
+    for (i, state) in states.iter().enumerate() {
+        let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
+        // A mirror fin in the same state, with the same capacity and the same energy, heats
+        // exactly as its original (the same cell energies, the same rises).
+        let same = mirror[i].and_then(|m| fins.get(m).map(|done| (m, done)));
+        if let Some((m, done)) = same {
+            if states[m] == *state
+                && caps[m] == caps[i]
+                && scenario.fins[m].length_m == scenario.fins[i].length_m
+                && done.energy_j == energy_j
+            {
+                fins.push(done.clone());
+                continue;
             }
-        })
-        .collect();
+        }
+        fins.push(match state {
+            FinState::Height(p0) => height_pass(&run, p0, energy_j, &caps[i]),
+            FinState::Field(field) => {
+                let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
+                let track = TrackFin {
+                    length_m: scenario.fins[i].length_m,
+                    capacity: &caps[i],
+                };
+                field_pass(
+                    &run,
+                    &mine,
+                    field,
+                    energy_j,
+                    track,
+                    (!coupling).then_some(case.fin_temp_c),
+                )
+            }
+        });
+    }
     Ok(PassHeat { run, fins })
 }
 
@@ -255,12 +347,9 @@ pub fn height_pass(
     energy_j: f64,
     cap: &FinCapacity,
 ) -> FinPass {
-    let modes = Modes::new(start.temps_c.len());
+    let modes = Modes::of(start.temps_c.len());
     let mut p = start.clone();
-    let weights = match &cap.sheet {
-        Some(sheet) => height_weights(&p, &sheet.from_edge()),
-        None => height_weights(&p, &|_| 1.0),
-    };
+    let weights = deposit_weights(&p, cap);
     // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
     let n = p.temps_c.len() as f64;
     let mut peak = p.peak_c();

@@ -6,7 +6,7 @@ use super::options::{RunOptions, Sampling, TempField};
 use super::pieces::{kinks, Frozen};
 use super::solver::SolverSettings;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
-use crate::dynamics::model::{active_pairs, ActivePair, BrakeTables};
+use crate::dynamics::model::{active_pairs, mirror_fins, ActivePair, BrakeTables};
 use crate::dynamics::track::{resistance_magnitude_n, TrackModel};
 use crate::scenario::{Case, Mount, Resistance, Scenario};
 
@@ -23,10 +23,18 @@ pub(super) struct Ctx {
     pub resistance: Resistance,
     pub air_density: f64,
     pub n_fins: usize,
+    /// Some pair has a lateral force (a fin off-centre): the run records its peak.
+    pub lateral: bool,
+    /// Per pair: whether it is a copy of an earlier pair on a mirror fin at the same
+    /// temperatures ([`mirror_fins`]); its force is its original's.
+    pub is_copy: Vec<bool>,
+    /// Per pair: the fins of its copies (empty for most pairs), which take its force and heat.
+    pub copy_fins: Vec<Vec<usize>>,
 }
 
 /// A track fin's temperature field as the force law reads it: per cell the inverse of the
 /// resistivity ratio ρ20/ρ(T_k), computed once per run.
+#[derive(PartialEq)]
 pub(super) struct FieldLaw {
     /// Track position of the first cell's upstream end, m.
     start_m: f64,
@@ -70,6 +78,9 @@ pub(super) struct CaseSetup<'a> {
     pub trajectory: bool,
     /// Integrate the load of every section ([`RunOptions::section_loads`]).
     pub section_loads: bool,
+    /// Some section of the scenario has its fin off-centre: the result reports the peak lateral
+    /// force (0 when this case's pairs have none).
+    pub lateral_reported: bool,
 }
 
 impl<'a> CaseSetup<'a> {
@@ -116,10 +127,14 @@ impl<'a> CaseSetup<'a> {
                 .collect(),
             _ => (0..n_fins).map(|_| None).collect(),
         };
-        let ctx = Ctx {
+        let pairs = active_pairs(scenario, tables, case);
+        let mut ctx = Ctx {
             mass_kg: case.mass_kg,
             vehicle_len_m: scenario.vehicle.length_m,
-            pairs: active_pairs(scenario, tables, case),
+            lateral: pairs.iter().any(ActivePair::has_lateral),
+            is_copy: vec![false; pairs.len()],
+            copy_fins: vec![Vec::new(); pairs.len()],
+            pairs,
             fin_capacity_j_k,
             fin_start_c,
             fin_fields,
@@ -127,6 +142,7 @@ impl<'a> CaseSetup<'a> {
             air_density: scenario.track.air_density_kg_m3,
             n_fins,
         };
+        ctx.mark_copies();
         let kinks = kinks(&ctx.pairs, &track);
         Self {
             ctx,
@@ -141,6 +157,7 @@ impl<'a> CaseSetup<'a> {
             sampling: options.sampling,
             trajectory: options.trajectory,
             section_loads: options.section_loads,
+            lateral_reported: tables.has_lateral(),
         }
     }
 
@@ -151,6 +168,31 @@ impl<'a> CaseSetup<'a> {
 }
 
 impl Ctx {
+    /// Marks the pairs of mirror fins that start at the same temperatures (equal start, heat
+    /// capacity and field) as copies of their originals: the run evaluates each force once and
+    /// gives it to every copy, with the same result as evaluating them all (to rounding: the
+    /// sum over pairs is taken in another order).
+    fn mark_copies(&mut self) {
+        let mirror = mirror_fins(&self.pairs, self.n_fins);
+        for (j, m) in mirror.iter().enumerate() {
+            let Some(i) = *m else { continue };
+            if self.fin_start_c[i] != self.fin_start_c[j]
+                || self.fin_capacity_j_k[i] != self.fin_capacity_j_k[j]
+                || self.fin_fields[i] != self.fin_fields[j]
+            {
+                continue;
+            }
+            let originals: Vec<usize> = (0..self.pairs.len())
+                .filter(|&p| self.pairs[p].spec.fin == i)
+                .collect();
+            let copies = (0..self.pairs.len()).filter(|&q| self.pairs[q].spec.fin == j);
+            for (p, q) in originals.into_iter().zip(copies) {
+                self.is_copy[q] = true;
+                self.copy_fins[p].push(j);
+            }
+        }
+    }
+
     /// Temperature of `fin` in the state `y`, °C.
     pub fn fin_temp<const N: usize>(&self, fin: usize, y: &State<N>) -> f64 {
         match self.fin_capacity_j_k[fin] {
@@ -168,9 +210,16 @@ impl Ctx {
             *p = 0.0;
         }
         for &(p, a, b) in &fr.pairs {
+            if self.is_copy[p] {
+                continue;
+            }
             let f = self.pair_force(p, a + b * x, y);
             brake -= f;
             dy[4 + self.pairs[p].spec.fin] += f * v;
+            for &fin in &self.copy_fins[p] {
+                brake -= f;
+                dy[4 + fin] += f * v;
+            }
         }
         let gravity = fr.gravity.force_n(self.mass_kg, x);
         let cos_theta = fr.gravity.cos_theta(x);
@@ -201,6 +250,22 @@ impl Ctx {
         }
     }
 
+    /// The lateral force on the fin of pair `p` along +y with the overlap `ov` (m) in the state
+    /// `y`, N (even in the speed; 0 for a centred fin).
+    #[inline]
+    pub fn pair_lateral<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> f64 {
+        let (x, v) = (y[0], y[1]);
+        let pair = &self.pairs[p];
+        let fin = pair.spec.fin;
+        match &self.fin_fields[fin] {
+            Some(field) if ov > 0.0 => {
+                pair.lateral_over_parts_n(v, field_parts(pair, field, x, ov))
+            }
+            Some(_) => 0.0,
+            None => pair.lateral_per_m_n(v, self.fin_temp(fin, y)) * ov,
+        }
+    }
+
     /// Whether static resistance (rolling and friction) holds the vehicle at rest against
     /// gravity in the state `y`.
     pub fn static_hold<const N: usize>(&self, fr: &Frozen, y: &State<N>) -> bool {
@@ -219,20 +284,30 @@ fn field_force(pair: &ActivePair, field: &FieldLaw, x: f64, v: f64, ov: f64) -> 
     if ov.is_nan() || ov <= 0.0 {
         return 0.0;
     }
+    pair.force_over_parts_n(v, field_parts(pair, field, x, ov))
+}
+
+/// The parts of the overlap window (from its lower edge, of length `ov` > 0) in the cells of
+/// `field`: (ρ20/ρ(T_k), length of the part in m).
+fn field_parts<'a>(
+    pair: &ActivePair,
+    field: &'a FieldLaw,
+    x: f64,
+    ov: f64,
+) -> impl Iterator<Item = (f64, f64)> + 'a {
     let lo = pair.spec.overlap.lower_edge(x).0;
     let hi = lo + ov;
     let first = ((lo - field.start_m) / field.cell_m).floor().max(0.0) as usize;
-    let parts = field
+    field
         .inverse_resistivity
         .iter()
         .enumerate()
         .skip(first)
-        .map(|(k, &inv_rho)| {
+        .map(move |(k, &inv_rho)| {
             let c0 = field.start_m + k as f64 * field.cell_m;
             (c0, inv_rho, hi.min(c0 + field.cell_m) - lo.max(c0))
         })
-        .take_while(|&(c0, _, _)| c0 < hi)
+        .take_while(move |&(c0, _, _)| c0 < hi)
         .filter(|&(_, _, part)| part > 0.0)
-        .map(|(_, inv_rho, part)| (inv_rho, part));
-    pair.force_over_parts_n(v, parts)
+        .map(|(_, inv_rho, part)| (inv_rho, part))
 }

@@ -25,7 +25,7 @@ const GL5: [(f64, f64); 5] = [
 ];
 
 /// The state of the continuous output at θ (x, v, the energies and fin energies).
-fn state_at<const N: usize>(dense: &Dense<N>, th: f64, n: usize) -> State<N> {
+pub(super) fn state_at<const N: usize>(dense: &Dense<N>, th: f64, n: usize) -> State<N> {
     let mut y = [0.0; N];
     for (i, yi) in y.iter_mut().enumerate().take(n.min(N)) {
         *yi = dense.value_at_theta(i, th);

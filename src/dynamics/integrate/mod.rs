@@ -124,7 +124,7 @@ fn simulate_n<const N: usize>(
             v_m_s: end.y_stop[1],
             a_m_s2: end.a_stop,
         };
-        run.sampler.event(&sc, stop, &mut run.res);
+        run.sampler.event(&sc, stop, &end.y_stop, &mut run.res);
         run.res.steps += end.steps;
         run.res.rhs_evaluations += end.rhs_evaluations;
         run.h_next = end.next_h;

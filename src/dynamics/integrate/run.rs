@@ -106,6 +106,9 @@ impl<const N: usize> RunState<N> {
                 } else {
                     Vec::new()
                 },
+                peak_lateral: setup
+                    .lateral_reported
+                    .then(crate::dynamics::LateralPeak::default),
                 ..RunResult::empty(&case.name, case.mass_kg, initial_energy)
             },
             sampler: Sampler::new(setup.sample_dt_s, setup.trajectory),

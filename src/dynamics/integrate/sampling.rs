@@ -11,7 +11,7 @@
 //! sample interval.
 
 use super::context::Ctx;
-use super::dopri::Dense;
+use super::dopri::{Dense, State};
 use super::pieces::Frozen;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
 use crate::dynamics::track::resistance_magnitude_n;
@@ -85,6 +85,10 @@ impl Sampler {
                 let mut s = derived(sc.ctx, sc.frozen, m, false);
                 self.onset.apply(&mut s);
                 record(res, &s, sc.in_zone);
+                if sc.in_zone && sc.ctx.lateral {
+                    let y = super::loads::state_at(dense, th, 4 + sc.ctx.n_fins);
+                    lateral(sc, &y, res);
+                }
                 res.samples.push(s);
             }
             self.next_k += 1;
@@ -105,12 +109,22 @@ impl Sampler {
         }
     }
 
-    /// The sample at the end of a piece (an event, or the end time). It always feeds the onset
-    /// and, inside the zone, the brake force peak; it is kept when `sc.keep`.
-    pub fn event(&mut self, sc: &StepContext<'_>, m: Motion, res: &mut RunResult) {
+    /// The sample at the end of a piece (an event, or the end time) with the state `y` there.
+    /// It always feeds the onset and, inside the zone, the brake and lateral force peaks; it is
+    /// kept when `sc.keep`.
+    pub fn event<const N: usize>(
+        &mut self,
+        sc: &StepContext<'_>,
+        m: Motion,
+        y: &State<N>,
+        res: &mut RunResult,
+    ) {
         let mut s = derived(sc.ctx, sc.frozen, m, true);
         self.onset.apply(&mut s);
         record(res, &s, sc.in_zone);
+        if sc.in_zone && sc.ctx.lateral {
+            lateral(sc, y, res);
+        }
         if sc.keep {
             res.samples.push(s);
         }
@@ -158,6 +172,28 @@ fn record(res: &mut RunResult, s: &Sample, in_zone: bool) {
         res.peak_onset_g_s = Some(s.onset_g_s);
     }
     res.peak_brake_force_n = res.peak_brake_force_n.max(s.brake_force_n.abs());
+}
+
+/// Updates the result's lateral force peak with the state `y` of a sample inside the zone: the
+/// sum over the piece's pairs of the lateral force with their frozen overlaps.
+fn lateral<const N: usize>(sc: &StepContext<'_>, y: &State<N>, res: &mut RunResult) {
+    let Some(peak) = res.peak_lateral.as_mut() else {
+        return;
+    };
+    let x = y[0];
+    let f: f64 = sc
+        .frozen
+        .pairs
+        .iter()
+        .map(|&(p, a, b)| sc.ctx.pair_lateral(p, a + b * x, y))
+        .sum();
+    if f.abs() > peak.force_n.abs() {
+        *peak = crate::dynamics::LateralPeak {
+            force_n: f,
+            position_m: Some(x),
+            speed_m_s: Some(y[1]),
+        };
+    }
 }
 
 /// The sample at a point of the motion under the frozen laws (no right-hand-side evaluation:

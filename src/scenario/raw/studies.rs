@@ -181,6 +181,9 @@ pub struct RawSweepInputs {
     /// Clearance of the magnet sections.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub clearance: Option<RawUncertain>,
+    /// Fin offset from the centre plane in the magnet sections (less than the clearance).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fin_offset: Option<RawUncertain>,
     /// Remanence (at 20 °C) of the magnet sections.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub remanence: Option<RawUncertain>,
@@ -230,7 +233,7 @@ pub struct RawUncertain {
     #[schemars(with = "Option<Vec<k::AnyQuantity>>")]
     pub values: Option<Vec<Q>>,
     /// `all` (one draw for every section or fin, the default) or `each` (one per section or
-    /// fin); only for clearance, remanence and fin conductivity.
+    /// fin); only for clearance, fin offset, remanence and fin conductivity.
     #[serde(skip_serializing_if = "Option::is_none")]
     #[schemars(with = "Option<String>")]
     pub scope: Option<Spanned<String>>,

@@ -62,6 +62,19 @@ impl Validator {
         if clearances.is_empty() {
             return None;
         }
+        if let (Some(q), Some(&c)) = (&p.module.fin_offset, clearances.first()) {
+            if module.fin_offset_m.abs() >= c {
+                self.at(
+                    &q.referenced,
+                    "plan.module.fin_offset",
+                    format!(
+                        "must be smaller in size than every clearance setting (the smallest is {} mm)",
+                        c * 1e3
+                    ),
+                );
+                return None;
+            }
+        }
         Some(PlanSpec {
             zone_start_m: zs,
             max_length_m: maxl,

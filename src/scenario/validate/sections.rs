@@ -58,6 +58,20 @@ impl Validator {
         let pole_height = self
             .required(&s.pole_height, &format!("{p}.pole_height"), near)
             .and_then(|q| self.positive(q, Kind::Length, &format!("{p}.pole_height")));
+        let fin_offset = match (&s.fin_offset, clearance) {
+            (None, _) => Some(defaults::FIN_OFFSET_M),
+            (Some(q), Some(c)) => self.q_where(
+                q,
+                Kind::Length,
+                &format!("{p}.fin_offset"),
+                |e| e.abs() < c,
+                &format!(
+                    "must be smaller in size than the clearance ({} mm): the fin would touch the magnets",
+                    c * 1e3
+                ),
+            ),
+            (Some(q), None) => self.q(q, Kind::Length, &format!("{p}.fin_offset")),
+        };
         Some(MagnetDesign {
             pole_pitch_m: pole_pitch?,
             magnet_thickness_m: magnet_thickness?,
@@ -65,6 +79,7 @@ impl Validator {
             remanence_t: remanence?,
             clearance_m: clearance?,
             pole_height_m: pole_height?,
+            fin_offset_m: fin_offset?,
         })
     }
 
@@ -114,6 +129,13 @@ impl Validator {
         p: &str,
         near: Option<(u64, u64)>,
     ) -> Option<(ForceSource, f64, Option<MagnetGrade>)> {
+        if let (Some(_), Some(q)) = (&s.force_curve, &s.fin_offset) {
+            self.at(
+                &q.referenced,
+                &format!("{p}.fin_offset"),
+                "the off-centre fin needs the magnet design (the layer model); a measured force curve has no lateral force",
+            );
+        }
         let force = match &s.force_curve {
             Some(fc) => self
                 .measured(fc, &format!("{p}.force_curve"))

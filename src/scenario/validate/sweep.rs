@@ -16,6 +16,8 @@ fn rule(input: SweepInput) -> (fn(f64) -> bool, &'static str) {
         }
         SweepInput::Speed | SweepInput::Position => (|_| true, ""),
         SweepInput::Clearance => (|x| x > 0.0 && x < 1.0, "must lie in (0, 1) m"),
+        // Against the clearance in `Validator::offsets_inside_clearances`.
+        SweepInput::FinOffset => (|x| x.abs() < 1.0, "must lie in (-1, 1) m"),
         SweepInput::Remanence => (|b| b > 0.0 && b <= 1.6, "must lie in (0, 1.6] T"),
         SweepInput::FinTemp | SweepInput::MagnetTemp => (
             |t| t > -100.0 && t < 1000.0,
@@ -32,6 +34,7 @@ fn raw_input(r: &RawSweep, input: SweepInput) -> Option<&RawUncertain> {
         SweepInput::Speed => i.speed.as_ref(),
         SweepInput::Position => i.position.as_ref(),
         SweepInput::Clearance => i.clearance.as_ref(),
+        SweepInput::FinOffset => i.fin_offset.as_ref(),
         SweepInput::Remanence => i.remanence.as_ref(),
         SweepInput::FinConductivity => i.fin_conductivity.as_ref(),
         SweepInput::FinTemp => i.fin_temp.as_ref(),
@@ -43,7 +46,7 @@ fn raw_input(r: &RawSweep, input: SweepInput) -> Option<&RawUncertain> {
 /// How many sampled variables an input is: one per model section (fin) with scope `each`.
 pub fn variables(u: &Uncertain, fins: &[Fin], sections: &[Section]) -> usize {
     match (u.scope, u.input) {
-        (Scope::Each, SweepInput::Clearance | SweepInput::Remanence) => {
+        (Scope::Each, i) if i.of_sections() => {
             sections.iter().filter(|s| s.design().is_some()).count()
         }
         (Scope::Each, SweepInput::FinConductivity) => fins.len(),
@@ -244,8 +247,8 @@ impl Validator {
                 self.at(
                     &s.referenced,
                     &format!("{p}.scope"),
-                    "only clearance, remanence and fin_conductivity have a scope (the case's \
-                     inputs take one value per sample)",
+                    "only clearance, fin_offset, remanence and fin_conductivity have a scope \
+                     (the case's inputs take one value per sample)",
                 );
                 return None;
             }
@@ -326,16 +329,18 @@ impl Validator {
                 }
             }
         }
-        let design_inputs = [SweepInput::Clearance, SweepInput::Remanence];
-        if inputs.iter().any(|u| design_inputs.contains(&u.input))
+        if inputs.iter().any(|u| u.input.of_sections())
             && !sections.iter().any(|s| s.design().is_some())
         {
             self.push(
                 None,
                 "sweep.inputs",
-                "clearance and remanence need a section that uses the layer model (every \
-                 section here has a measured force curve)",
+                "clearance, fin_offset and remanence need a section that uses the layer model \
+                 (every section here has a measured force curve)",
             );
+            fine = false;
+        }
+        if !self.offsets_inside_clearances(r, &inputs, sections) {
             fine = false;
         }
         let start = r.inputs_near();
@@ -493,9 +498,11 @@ impl Validator {
                 ),
             );
         }
-        // Designs: each distinct clearance, remanence or conductivity draw is a force table.
+        // Designs: each distinct clearance, offset, remanence or conductivity draw is a force
+        // table.
         let design = [
             SweepInput::Clearance,
+            SweepInput::FinOffset,
             SweepInput::Remanence,
             SweepInput::FinConductivity,
         ];
@@ -526,7 +533,10 @@ impl Validator {
             })
         };
         let model: Vec<&Section> = sections.iter().filter(|k| k.design().is_some()).collect();
-        let section_designs = if each(SweepInput::Clearance) || each(SweepInput::Remanence) {
+        let section_designs = if each(SweepInput::Clearance)
+            || each(SweepInput::FinOffset)
+            || each(SweepInput::Remanence)
+        {
             model.len()
         } else {
             distinct_count(&model, |a, b| a.design() == b.design())
@@ -571,6 +581,60 @@ impl Validator {
     }
 }
 
+impl Validator {
+    /// Whether every draw of the fin offset stays inside every draw of the clearance in every
+    /// model section (the swept values where swept, the section's own otherwise); one message at
+    /// the offset (or the clearance) input when not.
+    fn offsets_inside_clearances(
+        &mut self,
+        r: &RawSweep,
+        inputs: &[Uncertain],
+        sections: &[Section],
+    ) -> bool {
+        let support = |i: SweepInput| {
+            inputs
+                .iter()
+                .find(|u| u.input == i)
+                .map(|u| u.distribution.support())
+        };
+        let (offset, clearance) = (
+            support(SweepInput::FinOffset),
+            support(SweepInput::Clearance),
+        );
+        if offset.is_none() && clearance.is_none() {
+            return true;
+        }
+        let worst = sections
+            .iter()
+            .filter_map(|s| s.design())
+            .map(|d| {
+                let e = offset.map_or(d.fin_offset_m.abs(), |(lo, hi)| lo.abs().max(hi.abs()));
+                let c = clearance.map_or(d.clearance_m, |(lo, _)| lo);
+                (e, c)
+            })
+            .find(|(e, c)| e >= c);
+        let Some((e, c)) = worst else {
+            return true;
+        };
+        let (key, raw) = if offset.is_some() {
+            ("fin_offset", r.inputs.fin_offset.as_ref())
+        } else {
+            ("clearance", r.inputs.clearance.as_ref())
+        };
+        self.push(
+            raw.and_then(|u| loc(&u.distribution.referenced)),
+            &format!("sweep.inputs.{key}"),
+            format!(
+                "a fin offset of {} mm reaches a clearance of {} mm: every offset drawn must be \
+                 smaller in size than every clearance (the fin would touch the magnets)",
+                show(e * 1e3),
+                show(c * 1e3)
+            ),
+        );
+        false
+    }
+}
+
 /// The number of distinct items under `same`.
 fn distinct_count<T>(items: &[T], same: impl Fn(&T, &T) -> bool) -> usize {
     let mut seen: Vec<&T> = Vec::new();
@@ -591,6 +655,7 @@ impl RawSweep {
             &i.speed,
             &i.position,
             &i.clearance,
+            &i.fin_offset,
             &i.remanence,
             &i.fin_conductivity,
             &i.fin_temp,

@@ -373,3 +373,40 @@ fn duty_lift_and_magnet_rules() {
     );
     assert_eq!(d.magnets.gap_film_w_m2_k, 25.0);
 }
+
+#[test]
+fn fin_offset_defaults_to_centred_and_stays_inside_the_clearance() {
+    // Default 0 (defaults::FIN_OFFSET_M); a value of either sign below the clearance is kept.
+    let s = parse_str(
+        &with_sections(&format!(
+            "  - {{ name: A, start: 10 m, length: 1 m, {MAGNETS} }}\n  - {{ name: B, start: 12 m, length: 1 m, {MAGNETS}, fin_offset: -4.5 mm }}\n"
+        )),
+        "t.yaml",
+        None,
+    )
+    .unwrap();
+    let e: Vec<f64> = s
+        .sections
+        .iter()
+        .map(|k| k.design().unwrap().fin_offset_m)
+        .collect();
+    assert_eq!(e[0], 0.0);
+    assert!((e[1] + 0.0045).abs() < 1e-15);
+    // At the clearance (5 mm): refused at the value, naming the field.
+    let text = with_sections(&format!(
+        "  - {{ name: A, start: 10 m, length: 1 m, {MAGNETS}, fin_offset: 5 mm }}\n"
+    ));
+    let i = issues(&text);
+    assert_eq!(i.len(), 1);
+    assert_eq!(i[0].path, "sections[0].fin_offset");
+    assert_eq!(i[0].location, Some(line_col(&text, "5 mm }")));
+    // A plan module's offset must stay below every clearance setting (the smallest, 4 mm).
+    let text = format!(
+        "{}plan:\n  zone_start: 10 m\n  max_length: 20 m\n  module: {{ name: m, length: 1 m, {MAGNETS}, fin_offset: 4 mm }}\n  clearances: [4 mm, 8 mm]\n",
+        with_sections(&format!("  - {{ name: A, start: 10 m, length: 1 m, {MAGNETS} }}\n"))
+    );
+    let i = issues(&text);
+    assert_eq!(i.len(), 1, "{i:?}");
+    assert_eq!(i[0].path, "plan.module.fin_offset");
+    assert_eq!(i[0].location, Some(line_col(&text, "4 mm }")));
+}

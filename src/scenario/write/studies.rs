@@ -164,6 +164,7 @@ impl Writer<'_> {
                 I::Speed => &mut inputs.speed,
                 I::Position => &mut inputs.position,
                 I::Clearance => &mut inputs.clearance,
+                I::FinOffset => &mut inputs.fin_offset,
                 I::Remanence => &mut inputs.remanence,
                 I::FinConductivity => &mut inputs.fin_conductivity,
                 I::FinTemp => &mut inputs.fin_temp,
