@@ -1,5 +1,6 @@
 //! Benchmarks of the drag law: one direct model evaluation, one table evaluation, building a
-//! table, and the critical-speed search (through `DragModel::new`, which performs it), each with
+//! table, the finite-height edge factors of two harmonics, and the critical-speed search (through
+//! `DragModel::new`, which performs it), each with
 //! the finite-height factor and with the Russell–Norsworthy conductivity factor of the model
 //! before it; the section-end and fin-end tables, the section-end curve of the runs and the
 //! uncertainty band.
@@ -9,8 +10,8 @@
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use eddyzone::physics::{
-    BrakeGeometry, DragModel, EdgeModel, EndTable, FinEndTable, ForceTable, LateralTable,
-    ModelUncertainty, OffsetModel, SectionEndCurve,
+    BrakeGeometry, DragModel, EdgeModel, EndTable, FinEndTable, FiniteHeightEdge, ForceTable,
+    LateralTable, ModelUncertainty, OffsetModel, SectionEndCurve,
 };
 use std::hint::black_box;
 
@@ -72,6 +73,12 @@ fn benches(c: &mut Criterion) {
     });
     c.bench_function("model construction with critical-speed search", |b| {
         b.iter(|| black_box(DragModel::new(black_box(&geometry), 1.25, 58e6)))
+    });
+    c.bench_function("finite-height edge factor of the fundamental", |b| {
+        b.iter(|| black_box(FiniteHeightEdge::new(black_box(&geometry), 1)))
+    });
+    c.bench_function("finite-height edge factor of harmonic 5", |b| {
+        b.iter(|| black_box(FiniteHeightEdge::new(black_box(&geometry), 5)))
     });
     c.bench_function(
         "model construction, Russell-Norsworthy sigma_e (before)",

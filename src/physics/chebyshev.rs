@@ -15,11 +15,17 @@ pub(crate) fn lobatto_point(j: usize, n: usize) -> f64 {
 /// terms of the sum and the coefficients c_0 and c_N halved.
 pub(crate) fn coefficients(values: &[f64]) -> Vec<f64> {
     let n = values.len().saturating_sub(1);
-    if n == 0 {
-        return values.to_vec();
-    }
     // cos(mπ/N) for m = 0 … 2N − 1: jk mod 2N indexes it.
     let cosines: Vec<f64> = (0..2 * n).map(|m| lobatto_point(m, n)).collect();
+    coefficients_with(values, &cosines)
+}
+
+/// [`coefficients`] with the table cos(mπ/N), m = 0 … 2N − 1, given (`cosines.len()` = 2N).
+pub(crate) fn coefficients_with(values: &[f64], cosines: &[f64]) -> Vec<f64> {
+    let n = values.len().saturating_sub(1);
+    if n == 0 || cosines.len() != 2 * n {
+        return values.to_vec();
+    }
     (0..=n)
         .map(|k| {
             let sum: f64 = values
@@ -45,6 +51,22 @@ pub(crate) fn clenshaw(c: &[f64], x: f64) -> f64 {
         b1 = b0;
     }
     x * b1 - b2 + c.first().copied().unwrap_or(0.0)
+}
+
+/// Σ c_k T_k(x_p) at every point of `x` by Clenshaw's recurrence, the points side by side (the
+/// same operations as [`clenshaw`] per point, so the same values).
+pub(crate) fn clenshaw_many<const P: usize>(c: &[f64], x: &[f64; P]) -> [f64; P] {
+    let two_x: [f64; P] = std::array::from_fn(|p| 2.0 * x[p]);
+    let (mut b1, mut b2) = ([0.0; P], [0.0; P]);
+    for &ck in c.iter().skip(1).rev() {
+        for p in 0..P {
+            let b0 = two_x[p] * b1[p] - b2[p] + ck;
+            b2[p] = b1[p];
+            b1[p] = b0;
+        }
+    }
+    let c0 = c.first().copied().unwrap_or(0.0);
+    std::array::from_fn(|p| x[p] * b1[p] - b2[p] + c0)
 }
 
 /// Monomial coefficients a_0 … a_N of Σ c_k T_k(x) = Σ a_i x^i, from the three-term recurrence

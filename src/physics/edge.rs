@@ -343,8 +343,9 @@ impl FiniteHeightEdge {
                         let gm = g * phi[mi];
                         let row = (li * m_count + mi) * n + lj * m_count;
                         let start = if li == lj { mi } else { 0 };
-                        for nj in start..m_count {
-                            r[row + nj] += gm * phi[nj];
+                        for (x, &pn) in r[row + start..row + m_count].iter_mut().zip(&phi[start..])
+                        {
+                            *x += gm * pn;
                         }
                     }
                 }
@@ -354,8 +355,19 @@ impl FiniteHeightEdge {
             let mid = (panel as f64 + 0.5) * width;
             for &(x, wg) in &gauss8 {
                 let q = mid + 0.5 * width * x;
+                // φ̂_m = 2 p_m b·sinc((q − p_m)b)/(p_m + q) with sin((q − p_m)b) = −(−1)^m'
+                // cos(qb) (p_m b = (m' + ½)π, m' = m − 1): one cosine per node. The panels are
+                // centred on the p_m, so |q − p_m|·b ≥ 0.28 at every Gauss node.
+                let cos_qb = (q * b).cos();
+                let mut sign = -2.0 * cos_qb;
                 for (f, &pm) in phi.iter_mut().zip(&p) {
-                    *f = 2.0 * pm * b * sinc((q - pm) * b) / (pm + q);
+                    let x = (q - pm) * b;
+                    *f = if x.abs() < 1e-4 {
+                        2.0 * pm * b * sinc(x) / (pm + q)
+                    } else {
+                        sign * pm / ((q - pm) * (q + pm))
+                    };
+                    sign = -sign;
                 }
                 let weight = 0.5 * width * wg / PI;
                 accumulate(q, weight, &phi, &mut r);

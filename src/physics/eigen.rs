@@ -29,6 +29,32 @@ pub(crate) fn symmetric_eigen_projections(
     Some(d.into_iter().zip(y.iter().copied()).collect())
 }
 
+/// √(a² + b²): the plain formula where the squares can neither overflow nor underflow (it
+/// differs from `f64::hypot` by rounding only), `hypot` elsewhere.
+#[inline]
+fn pythag(a: f64, b: f64) -> f64 {
+    let m = a.abs().max(b.abs());
+    if m < 1e150 && m > 1e-150 {
+        (a * a + b * b).sqrt()
+    } else {
+        a.hypot(b)
+    }
+}
+
+/// Σ aᵢbᵢ in four interleaved partial sums (independent additions, so the products pipeline).
+fn dot(a: &[f64], b: &[f64]) -> f64 {
+    let mut sums = [0.0; 4];
+    let (a4, b4) = (a.chunks_exact(4), b.chunks_exact(4));
+    let (ar, br) = (a4.remainder(), b4.remainder());
+    for (x, y) in a4.zip(b4) {
+        for i in 0..4 {
+            sums[i] += x[i] * y[i];
+        }
+    }
+    let rest: f64 = ar.iter().zip(br).map(|(x, y)| x * y).sum();
+    (sums[0] + sums[1]) + (sums[2] + sums[3]) + rest
+}
+
 /// Householder reduction A = Q T Qᵀ; returns the diagonal and the super-diagonal of T
 /// (`e[i] = T[i][i+1]`, `e[n−1] = 0`) and replaces `y` by Qᵀy.
 fn tridiagonalise(a: &mut [f64], y: &mut [f64], n: usize) -> (Vec<f64>, Vec<f64>) {
@@ -56,7 +82,7 @@ fn tridiagonalise(a: &mut [f64], y: &mut [f64], n: usize) -> (Vec<f64>, Vec<f64>
         let beta = 2.0 / vtv;
         // p = β A v, w = p − (β/2)(pᵀv) v, A ← A − v wᵀ − w vᵀ on the trailing block.
         for i in k + 1..n {
-            p[i] = beta * (k + 1..n).map(|j| a[i * n + j] * v[j]).sum::<f64>();
+            p[i] = beta * dot(&a[i * n + k + 1..(i + 1) * n], &v[k + 1..n]);
         }
         let ptv: f64 = (k + 1..n).map(|i| p[i] * v[i]).sum();
         let half = 0.5 * beta * ptv;
@@ -64,8 +90,10 @@ fn tridiagonalise(a: &mut [f64], y: &mut [f64], n: usize) -> (Vec<f64>, Vec<f64>
             p[i] -= half * v[i];
         }
         for i in k + 1..n {
-            for j in k + 1..n {
-                a[i * n + j] -= v[i] * p[j] + p[i] * v[j];
+            let (vi, pi) = (v[i], p[i]);
+            let row = &mut a[i * n + k + 1..(i + 1) * n];
+            for ((x, &vj), &pj) in row.iter_mut().zip(&v[k + 1..n]).zip(&p[k + 1..n]) {
+                *x -= vi * pj + pi * vj;
             }
         }
         let sub = alpha * scale;
@@ -110,7 +138,7 @@ fn ql_implicit(d: &mut [f64], e: &mut [f64], z: &mut [f64]) -> Option<()> {
                 return None;
             }
             let mut g = (d[l + 1] - d[l]) / (2.0 * e[l]);
-            let mut r = g.hypot(1.0);
+            let mut r = pythag(g, 1.0);
             g = d[m] - d[l] + e[l] / (g + r.copysign(g));
             let (mut s, mut c, mut p) = (1.0_f64, 1.0_f64, 0.0_f64);
             let mut underflow = false;
@@ -119,7 +147,7 @@ fn ql_implicit(d: &mut [f64], e: &mut [f64], z: &mut [f64]) -> Option<()> {
                 i -= 1;
                 let f = s * e[i];
                 let b = c * e[i];
-                r = f.hypot(g);
+                r = pythag(f, g);
                 e[i + 1] = r;
                 if r == 0.0 {
                     d[i + 1] -= p;

@@ -162,8 +162,19 @@ struct Section {
 }
 
 impl Section {
+    /// γ = √(κ² + jκμ0σv), the principal root (algebraically, for κ² > 0 and σv ≥ 0).
+    #[inline]
+    fn gamma(&self, kappa: f64) -> Complex64 {
+        let (re, im) = (kappa * kappa, kappa * MU0_H_M * self.sigma_v);
+        if re > 0.0 && im >= 0.0 {
+            super::layer::sqrt_right_half_plane(re, im)
+        } else {
+            Complex64::new(re, im).sqrt()
+        }
+    }
+
     fn wave(&self, kappa: f64) -> Wave {
-        let gamma = Complex64::new(kappa * kappa, kappa * MU0_H_M * self.sigma_v).sqrt();
+        let gamma = self.gamma(kappa);
         let ratio = super::field::sinh_cosh_ratio(kappa * self.h_m, kappa * self.l);
         let denominator = gamma * tanh_c(gamma * self.u) + kappa * (kappa * self.l).tanh();
         let q = Complex64::new(0.0, ratio) / denominator;
@@ -184,13 +195,26 @@ impl Section {
     }
 
     /// φ(κ) = σv ρ̂² |Ã|² ∫|cosh γy|²dy/|cosh γu|², the force kernel of one magnet.
+    ///
+    /// As [`Section::wave`] and [`cosh_overlap`] with one complex tanh: for g₁ = γ*, g₂ = γ the
+    /// overlap is Re t/Re γ + Im t/Im γ with t = tanh(γu) (tanh(γ*u) = t*), the tanh the wave's
+    /// denominator uses; nearly real γ takes [`cosh_overlap`]'s series branch.
     fn kernel(&self, kappa: f64) -> f64 {
         if kappa <= 0.0 {
             return 0.0;
         }
-        let w = self.wave(kappa);
-        let overlap = cosh_overlap(w.gamma.conj(), w.gamma, self.u).re;
-        self.sigma_v * self.magnet(kappa).powi(2) * w.amplitude.norm_sqr() * overlap
+        let gamma = self.gamma(kappa);
+        let t = tanh_c(gamma * self.u);
+        let ratio = super::field::sinh_cosh_ratio(kappa * self.h_m, kappa * self.l);
+        let denominator = gamma * t + kappa * (kappa * self.l).tanh();
+        let amplitude = Complex64::new(0.0, -kappa) * (Complex64::new(0.0, ratio) / denominator);
+        // |γ* − γ| > 1e-7·|γ* + γ| as in `cosh_overlap`.
+        let overlap = if 2.0 * gamma.im.abs() > 1e-7 * (2.0 * gamma.re).abs() {
+            t.re / gamma.re + t.im / gamma.im
+        } else {
+            cosh_overlap(gamma.conj(), gamma, self.u).re
+        };
+        self.sigma_v * self.magnet(kappa).powi(2) * amplitude.norm_sqr() * overlap
     }
 }
 
@@ -333,6 +357,19 @@ fn finite_part_integral(s: &Section, k1: f64, a: f64, d: f64, precision: Precisi
     let scale = 2.0 / tau; // dκ/dt with t = κτ/2
                            // Low-speed crossover k* = μ0σdv/(2a), as t* = k*τ/2.
     let t_star = MU0_H_M * s.sigma_v * d / (2.0 * a) * tau / 2.0;
+    // Nodes s, half-width × weight, sin s and cos s of the plain panel [−π/2, 0, π/2].
+    let plain: Vec<(f64, f64, f64, f64)> = [(-0.5 * PI, 0.0), (0.0, 0.5 * PI)]
+        .iter()
+        .flat_map(|&(lo, hi)| {
+            let half = 0.5 * (hi - lo);
+            let mid = 0.5 * (hi + lo);
+            gauss.iter().map(move |&(x, wg)| {
+                let sv = mid + half * x;
+                let (sn, cs) = sv.sin_cos();
+                (sv, half * wg, sn, cs)
+            })
+        })
+        .collect();
     let mut total = 0.0;
     let mut peak: f64 = 0.0;
     let mut quiet = 0;
@@ -354,15 +391,23 @@ fn finite_part_integral(s: &Section, k1: f64, a: f64, d: f64, precision: Precisi
         }
         breaks.extend([0.0, 0.5 * PI]);
         let mut panel = 0.0;
-        for w in breaks.windows(2) {
-            let (lo, hi) = (w[0], w[1]);
-            let half = 0.5 * (hi - lo);
-            let mid = 0.5 * (hi + lo);
-            for &(x, wg) in &gauss {
-                let sv = mid + half * x;
+        if breaks.len() == 3 {
+            // The plain panel: its nodes (and their sines and cosines) are the same every time.
+            for &(sv, half_wg, sn, cs) in &plain {
                 let psi = s.kernel(scale * (t_n + sv));
-                let (sn, cs) = sv.sin_cos();
-                panel += half * wg * (psi - psi0 - dpsi0 * sn * cs) / (sn * sn);
+                panel += half_wg * (psi - psi0 - dpsi0 * sn * cs) / (sn * sn);
+            }
+        } else {
+            for w in breaks.windows(2) {
+                let (lo, hi) = (w[0], w[1]);
+                let half = 0.5 * (hi - lo);
+                let mid = 0.5 * (hi + lo);
+                for &(x, wg) in &gauss {
+                    let sv = mid + half * x;
+                    let psi = s.kernel(scale * (t_n + sv));
+                    let (sn, cs) = sv.sin_cos();
+                    panel += half * wg * (psi - psi0 - dpsi0 * sn * cs) / (sn * sn);
+                }
             }
         }
         total += scale * panel;

@@ -96,7 +96,7 @@ pub fn skin_depth_m(angular_frequency_rad_s: f64, conductivity_s_m: f64) -> f64 
 /// equation): with r = |z|, √z = √((r + re)/2) + j·im/(2√((r + re)/2)); no cancellation since
 /// re > 0 (e.g. Press et al., *Numerical Recipes*, 3rd ed., 2007, §5.5).
 #[inline]
-fn sqrt_right_half_plane(re: f64, im: f64) -> Complex64 {
+pub(crate) fn sqrt_right_half_plane(re: f64, im: f64) -> Complex64 {
     let r = re.hypot(im);
     let s = (0.5 * (r + re)).sqrt();
     Complex64::new(s, 0.5 * im / s)
@@ -388,16 +388,28 @@ impl DragModel {
         }
     }
 
+    /// f_n/v of kept harmonic `index` (in the order of [`DragModel::harmonics`]) at speed
+    /// `speed_abs_m_s` ≥ 0, finite-height factor included, Pa·s/m: the terms whose sum is
+    /// `force_per_area_pa(v)/v`; NaN for an index beyond the kept harmonics.
+    pub(crate) fn harmonic_force_over_speed(&self, index: usize, speed_abs_m_s: f64) -> f64 {
+        if index < self.terms.len() {
+            self.term_force_over_speed(index, speed_abs_m_s)
+        } else {
+            f64::NAN
+        }
+    }
+
     /// Speed of the maximum of the harmonic sum: a scan at 16 points per decade over
-    /// 10⁻⁴…10⁴ × `reference_speed_m_s` (widened if the maximum lies at an end), then a
+    /// 10⁻²…10² × `reference_speed_m_s` (widened by 4 decades at a time, up to 10⁻¹⁸…10¹⁸, if the
+    /// maximum lies at an end), then a
     /// golden-section search in ln v on the bracketing interval (Kiefer, "Sequential minimax search
     /// for a maximum", Proc. AMS 4, 1953) down to 1e-10 in ln v.
     fn search_critical_speed(&self, reference_speed_m_s: f64) -> f64 {
         let ln_ref = reference_speed_m_s.ln();
         let step = std::f64::consts::LN_10 / 16.0;
-        let (mut lo_i, mut hi_i) = (-64_i32, 64_i32);
+        let (mut lo_i, mut hi_i) = (-32_i32, 32_i32);
         let mut best_i = 0;
-        for _ in 0..4 {
+        for _ in 0..5 {
             let mut best = f64::NEG_INFINITY;
             for i in lo_i..=hi_i {
                 let f = self.force_per_area_pa((ln_ref + f64::from(i) * step).exp());
