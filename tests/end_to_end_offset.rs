@@ -12,6 +12,19 @@ use eddyzone::physics::{BrakeGeometry, DragModel, OffsetModel};
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
+/// The brake geometry of the test scenario's section and fin (as written in its YAML).
+fn geometry() -> BrakeGeometry {
+    BrakeGeometry {
+        pole_pitch_m: 0.050,
+        magnet_thickness_m: 0.012,
+        magnet_fill: 0.85,
+        clearance_m: 0.006,
+        fin_thickness_m: 0.010,
+        fin_height_m: 0.180,
+        pole_height_m: 0.150,
+    }
+}
+
 fn run(args: &[&str], dir: &Path) -> Output {
     Command::new(PathBuf::from(env!("CARGO_BIN_EXE_eddyzone")))
         .args(args)
@@ -79,15 +92,7 @@ fn expected_lateral_n(path: &str, e: f64, x: f64, v: f64) -> f64 {
     else {
         panic!("a model section");
     };
-    let g = BrakeGeometry {
-        pole_pitch_m: 0.050,
-        magnet_thickness_m: 0.012,
-        magnet_fill: 0.85,
-        clearance_m: 0.006,
-        fin_thickness_m: 0.010,
-        fin_height_m: 0.180,
-        pole_height_m: 0.150,
-    };
+    let g = geometry();
     assert_eq!(*active_height_m, 0.150);
     let model = DragModel::new(&g, 1.25, 30e6).unwrap();
     let per_area = OffsetModel::new(&model, e).unwrap().lateral_per_area_pa(v);
@@ -293,15 +298,7 @@ fn curve_of_an_off_centre_section_has_its_drag_and_lateral_force() {
         &["curve", &p, "--format", "json", "--speeds", speeds],
         tmp.path(),
     ));
-    let g = BrakeGeometry {
-        pole_pitch_m: 0.050,
-        magnet_thickness_m: 0.012,
-        magnet_fill: 0.85,
-        clearance_m: 0.006,
-        fin_thickness_m: 0.010,
-        fin_height_m: 0.180,
-        pole_height_m: 0.150,
-    };
+    let g = geometry();
     let o = OffsetModel::new(&DragModel::new(&g, 1.25, 30e6).unwrap(), 0.002).unwrap();
     let points = j[0]["points"].as_array().unwrap();
     assert_eq!(points.len(), 10);

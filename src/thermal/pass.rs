@@ -246,14 +246,6 @@ pub fn run_pass(
     coupling: bool,
     sample_dt_s: f64,
 ) -> Result<PassHeat, ThermalError> {
-    let n = scenario.fins.len();
-    if states.len() != n {
-        return Err(ThermalError::Input(format!(
-            "{} fin states for {} fins",
-            states.len(),
-            n
-        )));
-    }
     let caps = fin_capacities(scenario, tables)?;
     run_pass_with(scenario, tables, case, states, coupling, sample_dt_s, &caps)
 }
