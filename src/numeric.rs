@@ -166,3 +166,22 @@ mod tests {
         assert_eq!(interp_clamped(&[(1.0, 7.0)], 2.0), 7.0);
     }
 }
+
+/// `f` over `items` in order, in parallel (rayon) when there are at least two, collecting the
+/// first error. One item runs on the calling thread, so a one-case command does not start the
+/// thread pool (its start — reading the CPU quota, spawning a thread per core — costs a small
+/// run more than the run itself).
+pub fn map_in_parallel<T, R, E, F>(items: &[T], f: F) -> Result<Vec<R>, E>
+where
+    T: Sync,
+    R: Send,
+    E: Send,
+    F: Fn(&T) -> Result<R, E> + Sync + Send,
+{
+    use rayon::prelude::*;
+    if items.len() < 2 {
+        items.iter().map(f).collect()
+    } else {
+        items.par_iter().map(f).collect()
+    }
+}

@@ -20,7 +20,7 @@ use crate::curve::{curves, CurveOptions, PairCurve};
 use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult, Sampling};
 use crate::scenario::Scenario;
 use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
-use rayon::prelude::*;
+use crate::numeric::map_in_parallel;
 
 /// Errors of a study: a computation of the dynamics or thermal layer that could not complete.
 #[derive(Debug, thiserror::Error)]
@@ -238,10 +238,7 @@ impl Study {
         self.sample_budget(options)?;
         let s = &self.scenario;
         let mut runs = all_finite_runs(
-            s.cases
-                .par_iter()
-                .map(|c| simulate_case(s, &self.tables, c, options))
-                .collect::<Result<Vec<_>, _>>()?,
+            map_in_parallel(&s.cases, |c| simulate_case(s, &self.tables, c, options))?,
         )?;
         // A sweep drawing fin offsets reports the nominal lateral force too (0 when centred).
         let offset_drawn = s
@@ -275,19 +272,15 @@ impl Study {
             sample_dt_s: (s.time_limit_s / 1000.0).max(dt),
             ..options.clone()
         };
-        let spans = s
-            .cases
-            .par_iter()
-            .map(|c| {
-                simulate_case(s, &self.tables, c, &coarse).map(|r| {
-                    let span = match options.sampling {
-                        Sampling::Full => r.end_time_s,
-                        Sampling::ZoneOnly => r.time_in_zone_s.unwrap_or(0.0),
-                    };
-                    (r.case, span)
-                })
+        let spans = map_in_parallel(&s.cases, |c| {
+            simulate_case(s, &self.tables, c, &coarse).map(|r| {
+                let span = match options.sampling {
+                    Sampling::Full => r.end_time_s,
+                    Sampling::ZoneOnly => r.time_in_zone_s.unwrap_or(0.0),
+                };
+                (r.case, span)
             })
-            .collect::<Result<Vec<_>, _>>()?;
+        })?;
         let per = |span: f64| (span / dt).ceil() as u64 + 1;
         let total: u64 = spans.iter().map(|(_, t)| per(*t)).sum();
         if total <= MAX_SAMPLES {
@@ -323,15 +316,11 @@ impl Study {
         })?;
         let s = &self.scenario;
         progress.stage("heating the fins", Some(s.cases.len() as u64));
-        let out = s
-            .cases
-            .par_iter()
-            .map(|c| {
-                let h = heat_case(s, &self.tables, c, options);
-                progress.advance(1);
-                h
-            })
-            .collect::<Result<Vec<_>, _>>()?;
+        let out = map_in_parallel(&s.cases, |c| {
+            let h = heat_case(s, &self.tables, c, options);
+            progress.advance(1);
+            h
+        })?;
         if let Some((case, quantity)) = out
             .iter()
             .find_map(|h| non_finite_heat(h).map(|q| (h.case.clone(), q)))
@@ -369,15 +358,11 @@ impl Study {
         let judged = s.limits.max_fin_temperature_c.is_some();
         let (verdict, steady_runs) = if s.duty.is_some() {
             progress.stage("running cases at the steady state", None);
-            let steady_runs: Vec<RunResult> = s
-                .cases
-                .par_iter()
-                .zip(&heat)
-                .map(|(c, h)| {
-                    let o = start_from_states(&h.steady_start, c, options.run.clone());
-                    simulate_case(s, &self.tables, c, &o)
-                })
-                .collect::<Result<_, _>>()?;
+            let with_heat: Vec<_> = s.cases.iter().zip(&heat).collect();
+            let steady_runs: Vec<RunResult> = map_in_parallel(&with_heat, |(c, h)| {
+                let o = start_from_states(&h.steady_start, c, options.run.clone());
+                simulate_case(s, &self.tables, c, &o)
+            })?;
             let steady_runs = all_finite_runs(steady_runs)?;
             let cases = s
                 .cases
