@@ -109,6 +109,25 @@ impl HermiteWeights {
     }
 }
 
+/// `f` over `items` in order, in parallel (rayon) when there are at least two, collecting the
+/// first error. One item runs on the calling thread, so a one-case command does not start the
+/// thread pool (its start — reading the CPU quota, spawning a thread per core — costs a small
+/// run more than the run itself).
+pub fn map_in_parallel<T, R, E, F>(items: &[T], f: F) -> Result<Vec<R>, E>
+where
+    T: Sync,
+    R: Send,
+    E: Send,
+    F: Fn(&T) -> Result<R, E> + Sync + Send,
+{
+    use rayon::prelude::*;
+    if items.len() < 2 {
+        items.iter().map(f).collect()
+    } else {
+        items.par_iter().map(f).collect()
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -165,23 +184,17 @@ mod tests {
         assert_eq!(interp_clamped(&[], 2.0), 0.0);
         assert_eq!(interp_clamped(&[(1.0, 7.0)], 2.0), 7.0);
     }
-}
 
-/// `f` over `items` in order, in parallel (rayon) when there are at least two, collecting the
-/// first error. One item runs on the calling thread, so a one-case command does not start the
-/// thread pool (its start — reading the CPU quota, spawning a thread per core — costs a small
-/// run more than the run itself).
-pub fn map_in_parallel<T, R, E, F>(items: &[T], f: F) -> Result<Vec<R>, E>
-where
-    T: Sync,
-    R: Send,
-    E: Send,
-    F: Fn(&T) -> Result<R, E> + Sync + Send,
-{
-    use rayon::prelude::*;
-    if items.len() < 2 {
-        items.iter().map(f).collect()
-    } else {
-        items.par_iter().map(f).collect()
+    /// Both paths (one item on the caller, many on the pool) keep the order and report an error.
+    #[test]
+    fn map_in_parallel_keeps_order_and_errors() {
+        let square = |x: &u32| if *x == 7 { Err(*x) } else { Ok(x * x) };
+        assert_eq!(map_in_parallel(&[3u32], square), Ok(vec![9]));
+        assert_eq!(map_in_parallel(&[] as &[u32], square), Ok(vec![]));
+        let many: Vec<u32> = (0..100).filter(|&x| x != 7).collect();
+        let want: Vec<u32> = many.iter().map(|x| x * x).collect();
+        assert_eq!(map_in_parallel(&many, square), Ok(want));
+        assert_eq!(map_in_parallel(&[1u32, 7, 2], square), Err(7));
+        assert_eq!(map_in_parallel(&[7u32], square), Err(7));
     }
 }

@@ -18,9 +18,9 @@ use crate::checks::limits::{check_case, combine_states, verdict_of, JudgedState}
 use crate::checks::{verdict, CaseTemperatures, Verdict};
 use crate::curve::{curves, CurveOptions, PairCurve};
 use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult, Sampling};
+use crate::numeric::map_in_parallel;
 use crate::scenario::Scenario;
 use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
-use crate::numeric::map_in_parallel;
 
 /// Errors of a study: a computation of the dynamics or thermal layer that could not complete.
 #[derive(Debug, thiserror::Error)]
@@ -237,9 +237,9 @@ impl Study {
     pub fn run(&self, options: &RunOptions) -> Result<Vec<RunResult>, StudyError> {
         self.sample_budget(options)?;
         let s = &self.scenario;
-        let mut runs = all_finite_runs(
-            map_in_parallel(&s.cases, |c| simulate_case(s, &self.tables, c, options))?,
-        )?;
+        let mut runs = all_finite_runs(map_in_parallel(&s.cases, |c| {
+            simulate_case(s, &self.tables, c, options)
+        })?)?;
         // A sweep drawing fin offsets reports the nominal lateral force too (0 when centred).
         let offset_drawn = s
             .sweep
