@@ -128,6 +128,45 @@ where
     }
 }
 
+/// `a()` and `b()` side by side, their results as a pair: on the rayon pool's work stealing when
+/// called from inside it (a sweep's or planner's parallel loop), else with `b` on one scoped
+/// thread of its own — so a one-case command builds a table's independent parts on both cores
+/// without starting the pool. If the thread cannot be started, `b` runs after `a` on the caller.
+/// A panic in `b` is carried over to the caller.
+pub fn join<A, B, RA, RB>(a: A, b: B) -> (RA, RB)
+where
+    A: FnOnce() -> RA + Send,
+    B: FnOnce() -> RB + Send,
+    RA: Send,
+    RB: Send,
+{
+    if rayon::current_thread_index().is_some() {
+        return rayon::join(a, b);
+    }
+    let b = std::sync::Mutex::new(Some(b));
+    std::thread::scope(|scope| {
+        let spawned = std::thread::Builder::new().spawn_scoped(scope, || {
+            b.lock().ok().and_then(|mut g| g.take()).map(|f| f())
+        });
+        let ra = a();
+        let from_thread = match spawned {
+            Ok(handle) => match handle.join() {
+                Ok(rb) => rb,
+                Err(payload) => std::panic::resume_unwind(payload),
+            },
+            Err(_) => None,
+        };
+        let rb = match from_thread {
+            Some(rb) => rb,
+            None => match b.lock().ok().and_then(|mut g| g.take()) {
+                Some(f) => f(),
+                None => std::panic::resume_unwind(Box::new("join: the second task was lost")),
+            },
+        };
+        (ra, rb)
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -196,5 +235,21 @@ mod tests {
         assert_eq!(map_in_parallel(&many, square), Ok(want));
         assert_eq!(map_in_parallel(&[1u32, 7, 2], square), Err(7));
         assert_eq!(map_in_parallel(&[7u32], square), Err(7));
+    }
+
+    /// `join` gives both results in order from the caller's thread (one scoped thread) and
+    /// from inside the pool (rayon's join), and the second task really runs on another thread
+    /// outside the pool.
+    #[test]
+    fn join_runs_both_tasks_outside_and_inside_the_pool() {
+        let caller = std::thread::current().id();
+        let (a, (b, b_thread)) = join(|| 6 * 7, || ("b", std::thread::current().id()));
+        assert_eq!((a, b), (42, "b"));
+        assert_ne!(b_thread, caller);
+        let inside = rayon::ThreadPoolBuilder::new()
+            .num_threads(2)
+            .build()
+            .map(|pool| pool.install(|| join(|| 1, || 2)));
+        assert_eq!(inside.ok(), Some((1, 2)));
     }
 }

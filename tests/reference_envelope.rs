@@ -204,6 +204,39 @@ fn case() -> impl Strategy<Value = (UniformSignal, Vec<(f64, f64)>)> {
 }
 
 proptest! {
+    #![proptest_config(ProptestConfig::with_cases(3000))]
+
+    /// The all-durations curve (`sustained_curve`, one sweep of the exact check's pieces) equals
+    /// the per-duration algorithm `sustained_level` (a sliding-window minimum per duration,
+    /// checked against the definition in `tests/reference_signals.rs`) at every duration asked,
+    /// in any order: every dt/8, whole steps, random durations, the signal's length, beyond it,
+    /// and negative or NaN durations. Tolerance 1e-12 absolute (values of order 1–10).
+    #[test]
+    fn curve_equals_the_per_duration_levels(
+        values in signal_values(),
+        dt in prop_oneof![Just(0.001), Just(0.1), 0.001f64..1.0],
+        extra in prop::collection::vec(-0.2f64..1.3, 0..20),
+    ) {
+        let s = UniformSignal::new(dt, 0.0, values).unwrap();
+        let length = s.duration_s();
+        let mut durations: Vec<f64> =
+            (0..=8 * (s.len() - 1)).rev().map(|k| k as f64 * dt / 8.0).collect();
+        durations.extend(extra.iter().map(|f| f * length.max(dt)));
+        durations.extend([length, length + dt, f64::NAN, -dt, 0.0]);
+        let curve = sustained_curve(&s, &durations);
+        prop_assert_eq!(curve.len(), durations.len());
+        for (&d, &c) in durations.iter().zip(&curve) {
+            let one = sustained_level(&s, d);
+            if one.is_finite() {
+                prop_assert!((c - one).abs() <= 1e-12, "D={}: curve {} vs level {}", d, c, one);
+            } else {
+                prop_assert!(c == one || (c.is_nan() && one.is_nan()), "D={}: {} vs {}", d, c, one);
+            }
+        }
+    }
+}
+
+proptest! {
     #![proptest_config(ProptestConfig::with_cases(4000))]
 
     /// The exact check equals the brute-force minimum over the complete candidate set

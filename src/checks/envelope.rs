@@ -58,15 +58,11 @@
 //! equals the binding level.
 
 use super::filter::{SignalError, UniformSignal};
-use rayon::prelude::*;
 
 /// A customary cap on the number of grid durations for [`Envelope::check_with_grid`] besides the
 /// envelope breakpoints (the value the grid evaluation used before [`Envelope::check`] became
 /// exact; see [`Envelope::check_with_grid`] for what the cap costs in accuracy).
 pub const DEFAULT_MAX_GRID_DURATIONS: usize = 1024;
-
-/// Samples × durations above which [`sustained_curve`] runs durations in parallel.
-const PARALLEL_WORK: usize = 1 << 20;
 
 /// Relative tolerance for taking D/dt as a whole number of steps.
 const STEP_SNAP_REL: f64 = 1e-9;
@@ -90,31 +86,47 @@ pub fn sustained_level(signal: &UniformSignal, duration_s: f64) -> f64 {
     )
 }
 
-/// S(D) for each duration in `durations_s` (see [`sustained_level`]); O(n) per duration, spread
-/// over the rayon thread pool when the work (samples × durations) is large.
+/// S(D) for each duration in `durations_s` (see [`sustained_level`]), all at once from the
+/// pieces of the exact envelope check's sweep (O(n·log m) for n samples and m durations instead
+/// of O(n) per duration). The same values as [`sustained_level`] at each duration, to rounding
+/// (`tests/reference_envelope.rs` compares them).
 pub fn sustained_curve(signal: &UniformSignal, durations_s: &[f64]) -> Vec<f64> {
+    let mut out = vec![f64::NAN; durations_s.len()];
     if signal.validate().is_err() {
-        return vec![f64::NAN; durations_s.len()];
+        return out;
     }
-    let level = |scratch: &mut Scratch, d: f64| {
-        if d.is_nan() || d < 0.0 {
-            f64::NAN
-        } else {
-            sustained_level_unchecked(&signal.values, signal.dt_s, d, scratch)
+    let usable = |d: f64| !(d.is_nan() || d < 0.0);
+    if signal.values.is_empty() {
+        for (o, &d) in out.iter_mut().zip(durations_s) {
+            if usable(d) {
+                *o = f64::NEG_INFINITY;
+            }
         }
-    };
-    if signal.len().saturating_mul(durations_s.len()) < PARALLEL_WORK {
-        let mut scratch = Scratch::default();
-        durations_s
-            .iter()
-            .map(|&d| level(&mut scratch, d))
-            .collect()
-    } else {
-        durations_s
-            .par_iter()
-            .map_init(Scratch::default, |scratch, &d| level(scratch, d))
-            .collect()
+        return out;
     }
+    let last = (signal.len() - 1) as f64;
+    // Durations in steps (snapped as in `sustained_level`), the ones the pieces answer sorted.
+    let mut asked: Vec<(f64, usize)> = Vec::with_capacity(durations_s.len());
+    for (i, &d) in durations_s.iter().enumerate() {
+        if !usable(d) {
+            continue;
+        }
+        let q = snap_steps(d, signal.dt_s);
+        if q.is_nan() || q > last {
+            out[i] = f64::NEG_INFINITY;
+        } else {
+            asked.push((q, i));
+        }
+    }
+    asked.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let steps: Vec<f64> = asked.iter().map(|a| a.0).collect();
+    for (level, &(_, i)) in sustained_at_sorted_steps(&signal.values, &steps)
+        .into_iter()
+        .zip(&asked)
+    {
+        out[i] = level;
+    }
+    out
 }
 
 /// The negative-side counterpart of [`sustained_level`]: the lowest level L such that the signal
@@ -597,6 +609,53 @@ fn exact_worst(y: &[f64], floor: &Floor) -> Binding {
         allowed: f64::NAN,
         candidates: 0,
     };
+    for_each_piece(y, |piece| consider_piece(&piece, floor, &mut best));
+    best
+}
+
+/// One piece of [`exact_worst`]'s sweep: the component of {y ≥ L} around sample `t`, bounded by
+/// the samples `prev` and `next` (None at the signal's ends), for the levels L from y[t] down to
+/// the higher of the bounding samples.
+struct Piece<'a> {
+    y: &'a [f64],
+    prev: Option<usize>,
+    t: usize,
+    next: Option<usize>,
+}
+
+impl Piece<'_> {
+    /// The piece's highest level y[t] and lowest level (the higher bounding sample).
+    fn levels(&self) -> (f64, f64) {
+        let hi = self.y[self.t];
+        let lo = match (self.prev, self.next) {
+            (Some(p), Some(k)) => self.y[p].max(self.y[k]),
+            (Some(p), None) => self.y[p],
+            (None, Some(k)) => self.y[k],
+            (None, None) => hi,
+        };
+        (hi, lo)
+    }
+
+    /// Length in steps of the component at `level`: the samples a..=b plus the parts of the
+    /// bounding segments above the level (y[a] > y[p] and y[b] > y[k], so no division by zero).
+    fn length(&self, level: f64) -> f64 {
+        let y = self.y;
+        let a = self.prev.map_or(0, |p| p + 1);
+        let b = self.next.map_or(y.len() - 1, |k| k - 1);
+        let mut steps = (b - a) as f64;
+        if let Some(p) = self.prev {
+            steps += (y[a] - level) / (y[a] - y[p]);
+        }
+        if let Some(k) = self.next {
+            steps += (y[b] - level) / (y[b] - y[k]);
+        }
+        steps
+    }
+}
+
+/// Calls `visit` with every piece of `y` (not empty), from one left-to-right pass with a stack of
+/// sample indices whose values never decrease upwards (see [`exact_worst`]).
+fn for_each_piece<'a>(y: &'a [f64], mut visit: impl FnMut(Piece<'a>)) {
     let mut stack: Vec<usize> = Vec::with_capacity(64);
     for k in 0..=y.len() {
         // k = n flushes the stack: those samples have no smaller one after them.
@@ -610,52 +669,27 @@ fn exact_worst(y: &[f64], floor: &Floor) -> Binding {
             if prev.is_some_and(|p| y[p] == y[t]) {
                 continue;
             }
-            consider_piece(y, prev, t, next.map(|(k, _)| k), floor, &mut best);
+            visit(Piece {
+                y,
+                prev,
+                t,
+                next: next.map(|(k, _)| k),
+            });
         }
         if next.is_some() {
             stack.push(k);
         }
     }
-    best
 }
 
-/// Offers the candidates of one piece (see [`exact_worst`]): the component around `t` bounded
-/// by the samples `prev` and `next` (None at the signal's ends), for levels from y[t] down to
-/// the higher of the bounding samples. On the piece the length ℓ(L) is linear and falling in L,
-/// F(ℓ) − L is linear between the levels where ℓ meets a breakpoint of F, so the candidates are
-/// the two ends and those levels.
-fn consider_piece(
-    y: &[f64],
-    prev: Option<usize>,
-    t: usize,
-    next: Option<usize>,
-    floor: &Floor,
-    best: &mut Binding,
-) {
-    let a = prev.map_or(0, |p| p + 1);
-    let b = next.map_or(y.len() - 1, |k| k - 1);
-    let hi = y[t];
-    let lo = match (prev, next) {
-        (Some(p), Some(k)) => y[p].max(y[k]),
-        (Some(p), None) => y[p],
-        (None, Some(k)) => y[k],
-        (None, None) => hi,
-    };
-    // Length in steps of the component at level L: the samples a..=b plus the parts of the
-    // bounding segments above L (y[a] > y[p] and y[b] > y[k], so no division by zero).
-    let length = |level: f64| {
-        let mut steps = (b - a) as f64;
-        if let Some(p) = prev {
-            steps += (y[a] - level) / (y[a] - y[p]);
-        }
-        if let Some(k) = next {
-            steps += (y[b] - level) / (y[b] - y[k]);
-        }
-        steps
-    };
+/// Offers the candidates of one piece (see [`exact_worst`]). On the piece the length ℓ(L) is
+/// linear and falling in L, F(ℓ) − L is linear between the levels where ℓ meets a breakpoint of
+/// F, so the candidates are the two ends and those levels.
+fn consider_piece(piece: &Piece<'_>, floor: &Floor, best: &mut Binding) {
+    let (hi, lo) = piece.levels();
     // Snapped like the durations in `sustained_level`, so a component of a whole number of steps
     // meets an envelope step at that duration.
-    let (len_hi, len_lo) = (snap_whole(length(hi)), snap_whole(length(lo)));
+    let (len_hi, len_lo) = (snap_whole(piece.length(hi)), snap_whole(piece.length(lo)));
     // F is non-increasing and ℓ ≤ len_lo, L ≤ hi on the piece: nothing here can be worse.
     if floor.at(len_lo) - hi > best.margin {
         return;
@@ -671,6 +705,43 @@ fn consider_piece(
             best.offer(floor, x, level);
         }
     }
+}
+
+/// S at every duration of `steps` (durations in steps of the signal, sorted ascending, each
+/// ≤ n − 1) for the samples `y` (not empty), from the pieces of [`exact_worst`]'s sweep: a
+/// component of a piece is at least q steps long for every level from the piece's top down
+/// to where its (linear) length reaches q, so S(q) = max over pieces of y[t] where the length
+/// at the top is ≥ q, else of the level where the length equals q, when the piece's longest
+/// length reaches q. One pass, O(n·log m) plus the durations inside each piece's length range.
+fn sustained_at_sorted_steps(y: &[f64], steps: &[f64]) -> Vec<f64> {
+    let m = steps.len();
+    // tops[j]: the highest piece top whose top length covers steps[j] and no later duration.
+    let mut tops = vec![f64::NEG_INFINITY; m];
+    let mut out = vec![f64::NEG_INFINITY; m];
+    for_each_piece(y, |piece| {
+        let (hi, lo) = piece.levels();
+        let (len_hi, len_lo) = (piece.length(hi), piece.length(lo));
+        let covered = steps.partition_point(|&q| q <= len_hi);
+        if covered > 0 {
+            tops[covered - 1] = tops[covered - 1].max(hi);
+        }
+        if len_lo > len_hi {
+            for (o, &q) in out[covered..]
+                .iter_mut()
+                .zip(&steps[covered..])
+                .take_while(|(_, &q)| q <= len_lo)
+            {
+                let level = hi - (hi - lo) * ((q - len_hi) / (len_lo - len_hi));
+                *o = o.max(level);
+            }
+        }
+    });
+    let mut running = f64::NEG_INFINITY;
+    for j in (0..m).rev() {
+        running = running.max(tops[j]);
+        out[j] = out[j].max(running);
+    }
+    out
 }
 
 #[cfg(test)]

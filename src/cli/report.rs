@@ -47,7 +47,8 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         heat: HeatDemand::Always,
     };
     let bar = Bar::new();
-    let judged = study.judge(&options, &bar);
+    // The force curves of the figures do not depend on the runs: computed beside them.
+    let (judged, curves) = rayon::join(|| study.judge(&options, &bar), || study.default_curves());
     bar.finish();
     let judged = judged?;
     if let Some(e) = &judged.heat_failure {
@@ -63,7 +64,7 @@ pub fn execute(a: &ReportArgs) -> Result<i32, Error> {
         input_bytes: input.as_bytes(),
         generated: generation_stamp(),
     };
-    let curves = study.default_curves()?;
+    let curves = curves?;
     let bundle = report_bundle(&study, &judged, &curves, &source)?;
     write_folder(&a.out, &bundle.files, Placement::Replace)?;
     eprintln!(

@@ -25,6 +25,7 @@
 use super::overlap::Overlap;
 use super::DynamicsError;
 use crate::constants::REFERENCE_TEMPERATURE_C;
+use crate::numeric::join;
 use crate::physics::{
     BrakeGeometry, DragModel, ForceTable, LateralTable, MeasuredCurve, OffsetModel, SectionEndCurve,
 };
@@ -347,20 +348,28 @@ fn pair_law(
             let (table, model, section_ends, lateral) = match cache.find(&key, vmax) {
                 Some(c) => (c.table, c.model, c.section_ends, c.lateral),
                 None => {
-                    let model = Arc::new(model_in(fin, sec, design)?);
-                    let (table, lateral) = if design.fin_offset_m == 0.0 {
-                        (Arc::new(ForceTable::build(&model, vmax)), None)
-                    } else {
-                        let offset = OffsetModel::new(&model, design.fin_offset_m)
-                            .map_err(|source| DynamicsError::physics(fin, sec, source))?;
-                        (
-                            Arc::new(ForceTable::build_offset(&offset, vmax)),
-                            Some(Arc::new(LateralTable::build(&offset, vmax))),
-                        )
-                    };
+                    // The drag model with its tables and the section-end curve are independent:
+                    // built side by side.
+                    let (built, section_ends) = join(
+                        || -> Result<_, DynamicsError> {
+                            let model = Arc::new(model_in(fin, sec, design)?);
+                            let (table, lateral) = if design.fin_offset_m == 0.0 {
+                                (Arc::new(ForceTable::build(&model, vmax)), None)
+                            } else {
+                                let offset = OffsetModel::new(&model, design.fin_offset_m)
+                                    .map_err(|source| DynamicsError::physics(fin, sec, source))?;
+                                (
+                                    Arc::new(ForceTable::build_offset(&offset, vmax)),
+                                    Some(Arc::new(LateralTable::build(&offset, vmax))),
+                                )
+                            };
+                            Ok((model, table, lateral))
+                        },
+                        || SectionEndCurve::new(&g, fin.material.conductivity_s_m, vmax),
+                    );
+                    let (model, table, lateral) = built?;
                     let section_ends = Arc::new(
-                        SectionEndCurve::new(&g, fin.material.conductivity_s_m, vmax)
-                            .map_err(|source| DynamicsError::physics(fin, sec, source))?,
+                        section_ends.map_err(|source| DynamicsError::physics(fin, sec, source))?,
                     );
                     cache.insert(CachedTable {
                         key,

@@ -8,6 +8,7 @@ use super::plots::{render_png, render_svg};
 use super::{csv_out, OutputError, OutputFile};
 use crate::checks::Verdict;
 use crate::curve::PairCurve;
+use crate::numeric::map_in_parallel;
 use crate::study::{Judgement, Study};
 use crate::thermal::CaseHeat;
 use serde::Serialize;
@@ -59,16 +60,28 @@ pub fn report_bundle(
     source: &ReportSource<'_>,
 ) -> Result<ReportBundle, OutputError> {
     let s = study.scenario();
-    let figs = all_figures(s, &judged.runs, curves, &judged.heat, &judged.verdict);
+    // The figures (built, then rendered one per task) beside the profile CSVs.
+    let (figures, profiles) = rayon::join(
+        || {
+            let figs = all_figures(s, &judged.runs, curves, &judged.heat, &judged.verdict);
+            let drawn = map_in_parallel(&figs, |f| {
+                let plot_error = |source| OutputError::Plot {
+                    figure: f.id.clone(),
+                    source,
+                };
+                let svg = render_svg(&f.chart, FIGURE_SIZE_PX).map_err(plot_error)?;
+                let png = render_png(&f.chart, FIGURE_SIZE_PX).map_err(plot_error)?;
+                Ok::<_, OutputError>((svg, png))
+            });
+            drawn.map(|d| (figs, d))
+        },
+        || csv_out::run_profiles(&judged.runs, &s.rider, "profile-"),
+    );
+    let (figs, drawn) = figures?;
+    let profiles = profiles?;
     let mut files = Vec::with_capacity(2 * figs.len() + judged.runs.len() + 2);
     let mut rendered = Vec::with_capacity(figs.len());
-    for f in &figs {
-        let plot_error = |source| OutputError::Plot {
-            figure: f.id.clone(),
-            source,
-        };
-        let svg = render_svg(&f.chart, FIGURE_SIZE_PX).map_err(plot_error)?;
-        let png = render_png(&f.chart, FIGURE_SIZE_PX).map_err(plot_error)?;
+    for (f, (svg, png)) in figs.iter().zip(drawn) {
         files.push(OutputFile {
             name: format!("{}.svg", f.id),
             bytes: svg.clone().into_bytes(),
@@ -79,7 +92,6 @@ pub fn report_bundle(
         });
         rendered.push((f, svg));
     }
-    let profiles = csv_out::run_profiles(&judged.runs, &s.rider, "profile-")?;
     let profile_count = profiles.len();
     files.extend(profiles);
     let summary = Summary {

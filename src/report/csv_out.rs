@@ -4,8 +4,10 @@ use super::{unique_stems, OutputFile};
 use crate::checks::rider::profile_columns;
 use crate::curve::PairCurve;
 use crate::dynamics::{RunResult, Sample};
+use crate::numeric::map_in_parallel;
 use crate::scenario::Rider;
 use crate::thermal::{CaseHeat, TrackProfile};
+use std::fmt::Write as _;
 
 /// The curve CSV header.
 pub const CURVE_HEADER: [&str; 12] = [
@@ -89,26 +91,30 @@ pub fn profile_csv(
     let mut header: Vec<&str> = PROFILE_HEADER.to_vec();
     header.extend(extra.iter().map(|e| e.0));
     w.write_record(&header)?;
+    // One buffer per column, reused row after row (no allocation per number).
+    let mut rec = vec![String::new(); header.len()];
     for (i, s) in samples.iter().enumerate() {
-        let mut rec = vec![
-            format!("{}", s.t_s),
-            format!("{}", s.s_m),
-            format!("{}", s.v_m_s),
-            format!("{}", s.a_m_s2),
-            format!("{}", s.decel_g),
-            format!("{}", s.brake_force_n),
-            format!("{}", s.gravity_force_n),
-            format!("{}", s.resistance_force_n),
-            format!("{}", s.overlap_m),
+        let values = [
+            s.t_s,
+            s.s_m,
+            s.v_m_s,
+            s.a_m_s2,
+            s.decel_g,
+            s.brake_force_n,
+            s.gravity_force_n,
+            s.resistance_force_n,
+            s.overlap_m,
         ];
-        for e in extra {
-            rec.push(
-                e.1.get(i)
-                    .copied()
-                    .flatten()
-                    .map(|v| format!("{v}"))
-                    .unwrap_or_default(),
-            );
+        let cells = values
+            .iter()
+            .map(|&v| Some(v))
+            .chain(extra.iter().map(|e| e.1.get(i).copied().flatten()));
+        for (field, value) in rec.iter_mut().zip(cells) {
+            field.clear();
+            if let Some(v) = value {
+                // Writing to a String cannot fail.
+                let _ = write!(field, "{v}");
+            }
         }
         w.write_record(&rec)?;
     }
@@ -123,19 +129,16 @@ pub fn run_profiles(
     prefix: &str,
 ) -> Result<Vec<OutputFile>, csv::Error> {
     let stems = unique_stems(&results.iter().map(|r| &r.case).collect::<Vec<_>>());
-    results
-        .iter()
-        .zip(stems)
-        .map(|(r, stem)| {
-            let cols = profile_columns(r, rider);
-            let extra: Vec<(&str, Vec<Option<f64>>)> =
-                cols.iter().map(|(n, v)| (n.as_str(), v.clone())).collect();
-            Ok(OutputFile {
-                name: format!("{prefix}{stem}.csv"),
-                bytes: profile_csv(&r.samples, &extra)?,
-            })
+    let named: Vec<_> = results.iter().zip(stems).collect();
+    map_in_parallel(&named, |(r, stem)| {
+        let cols = profile_columns(r, rider);
+        let extra: Vec<(&str, Vec<Option<f64>>)> =
+            cols.iter().map(|(n, v)| (n.as_str(), v.clone())).collect();
+        Ok(OutputFile {
+            name: format!("{prefix}{stem}.csv"),
+            bytes: profile_csv(&r.samples, &extra)?,
         })
-        .collect()
+    })
 }
 
 /// Temperature along one track fin after the last pass: s, rise of the last pass, temperature.

@@ -16,6 +16,7 @@ use crate::report::plots::{Band, Chart, RefLine, RefPath, Series};
 use crate::scenario::validate::track_span;
 use crate::scenario::{Axis, Scenario};
 use crate::thermal::CaseHeat;
+use rayon::prelude::*;
 
 /// One figure of the report.
 #[derive(Debug, Clone)]
@@ -275,29 +276,30 @@ pub fn sustained(s: &Scenario, runs: &[RunResult], em: &Emphasis) -> Chart {
     } else {
         env.positive.clone()
     };
-    let mut lines = Vec::new();
-    for r in runs {
-        let Ok(sig) = rider_signals(r, &s.rider) else {
-            continue;
-        };
-        let u = &sig.filtered[ax];
-        let span = u.dt_s * (u.values.len().saturating_sub(1)) as f64;
-        let durations: Vec<f64> = (0..=200).map(|k| span * k as f64 / 200.0).collect();
-        let levels = if negative {
-            sustained_curve_below(u, &durations)
-                .into_iter()
-                .map(|v| -v)
-                .collect::<Vec<_>>()
-        } else {
-            sustained_curve(u, &durations)
-        };
-        lines.push(CaseLine {
-            case: r.case.clone(),
-            part: None,
-            points: durations.into_iter().zip(levels).collect(),
-            dashed: false,
-        });
-    }
+    // One line per run, the runs side by side (rayon keeps their order).
+    let lines: Vec<CaseLine> = runs
+        .par_iter()
+        .filter_map(|r| {
+            let sig = rider_signals(r, &s.rider).ok()?;
+            let u = &sig.filtered[ax];
+            let span = u.dt_s * (u.values.len().saturating_sub(1)) as f64;
+            let durations: Vec<f64> = (0..=200).map(|k| span * k as f64 / 200.0).collect();
+            let levels = if negative {
+                sustained_curve_below(u, &durations)
+                    .into_iter()
+                    .map(|v| -v)
+                    .collect::<Vec<_>>()
+            } else {
+                sustained_curve(u, &durations)
+            };
+            Some(CaseLine {
+                case: r.case.clone(),
+                part: None,
+                points: durations.into_iter().zip(levels).collect(),
+                dashed: false,
+            })
+        })
+        .collect();
     let (series, background) = case_series(em, ENVELOPE_CHECKS, lines);
     let ref_paths = envelope_points
         .map(|points| RefPath {
@@ -513,13 +515,23 @@ pub fn all_figures(
     verdict: &Verdict,
 ) -> Vec<Figure> {
     let em = Emphasis::new(s, verdict);
+    // The charts that read every sample of every run, built side by side.
+    let ((speed_chart, felt_chart), (sustained_chart, designs)) = rayon::join(
+        || {
+            rayon::join(
+                || speed_position(s, runs, &em),
+                || felt_acceleration(s, runs, &em),
+            )
+        },
+        || rayon::join(|| sustained(s, runs, &em), || force_speed(curves, runs)),
+    );
     let mut v = vec![
         Figure {
             id: "speed-position".into(),
             caption: "Speed against vehicle front position for every case; shaded: magnet \
                       sections (or track fins); band or lines: exit-speed window of the limits."
                 .into(),
-            chart: speed_position(s, runs, &em),
+            chart: speed_chart,
         },
         Figure {
             id: "felt-acceleration".into(),
@@ -528,17 +540,16 @@ pub fn all_figures(
                  filtered; dashed grey: peak limits.",
                 crate::checks::rider::axis_word(&s.rider)
             ),
-            chart: felt_acceleration(s, runs, &em),
+            chart: felt_chart,
         },
         Figure {
             id: "sustained-acceleration".into(),
             caption: "Sustained acceleration level against the time it is held (filtered signal), \
                       with the limit envelope."
                 .into(),
-            chart: sustained(s, runs, &em),
+            chart: sustained_chart,
         },
     ];
-    let designs = force_speed(curves, runs);
     let stems = crate::report::unique_stems(&designs.iter().map(|d| &d.0).collect::<Vec<_>>());
     for ((_, chart), stem) in designs.into_iter().zip(stems) {
         v.push(Figure {
