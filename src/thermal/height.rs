@@ -300,10 +300,10 @@ impl Modes {
             // Δt off the last one by rounding (sample times k·dt differ in their last
             // bits): e^(−μ(Δt + δ)) = e^(−μΔt)(1 − μδ) and the gain grows by e^(−μΔt)·δ,
             // both to O((μδ)²), below 1e-18 of the values here.
-            for k in 0..self.n {
-                let mu = stepper.rate * self.shape[k];
-                gain[k] += decay[k] * delta;
-                decay[k] *= 1.0 - mu * delta;
+            for ((g, e), shape) in gain.iter_mut().zip(decay.iter_mut()).zip(&self.shape) {
+                let mu = stepper.rate * shape;
+                *g += *e * delta;
+                *e *= 1.0 - mu * delta;
             }
             *last_dt = dt;
         } else if delta != 0.0 {
@@ -311,8 +311,13 @@ impl Modes {
             *last_dt = dt;
         }
         let per_s = share / dt;
-        for k in 0..self.n {
-            a[k] = a[k] * decay[k] + stepper.src[k] * per_s * gain[k];
+        for (((ak, e), g), src) in a
+            .iter_mut()
+            .zip(decay.iter())
+            .zip(gain.iter())
+            .zip(&stepper.src)
+        {
+            *ak = *ak * e + src * per_s * g;
         }
         true
     }
