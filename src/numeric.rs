@@ -128,6 +128,22 @@ where
     }
 }
 
+/// [`map_in_parallel`] for a map that cannot fail: `f` over `items` in order, on the rayon
+/// pool when there are at least two.
+pub fn map_each_in_parallel<T, R, F>(items: &[T], f: F) -> Vec<R>
+where
+    T: Sync,
+    R: Send,
+    F: Fn(&T) -> R + Sync + Send,
+{
+    use rayon::prelude::*;
+    if items.len() < 2 {
+        items.iter().map(f).collect()
+    } else {
+        items.par_iter().map(f).collect()
+    }
+}
+
 /// `a()` and `b()` side by side, their results as a pair: on the rayon pool's work stealing when
 /// called from inside it (a sweep's or planner's parallel loop), else with `b` on one scoped
 /// thread of its own — so a one-case command builds a table's independent parts on both cores

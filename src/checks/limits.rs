@@ -8,6 +8,7 @@ use super::rider::{rider_signals, RiderSignalError, RiderSignals};
 /// The felt acceleration of a run, or why it could not be formed.
 type Signals = Result<RiderSignals, RiderSignalError>;
 use crate::dynamics::{Outcome, RunResult};
+use crate::numeric::map_each_in_parallel;
 use crate::scenario::{Case, RateSignal, Scenario};
 use crate::VERSION;
 use serde::Serialize;
@@ -654,13 +655,12 @@ pub fn limit_warnings(scenario: &Scenario) -> Vec<String> {
 
 /// Verdict on every case; `temps[i]` belongs to `scenario.cases[i]` (may be empty).
 pub fn verdict(scenario: &Scenario, runs: &[RunResult], temps: &[CaseTemperatures]) -> Verdict {
-    let cases: Vec<CaseVerdict> = scenario
-        .cases
-        .iter()
-        .zip(runs)
-        .enumerate()
-        .map(|(i, (c, r))| check_case(scenario, c, r, temps.get(i).copied().unwrap_or_default()))
-        .collect();
+    // Each case judged on its own, the cases side by side.
+    let judged: Vec<(usize, (&Case, &RunResult))> =
+        scenario.cases.iter().zip(runs).enumerate().collect();
+    let cases: Vec<CaseVerdict> = map_each_in_parallel(&judged, |&(i, (c, r))| {
+        check_case(scenario, c, r, temps.get(i).copied().unwrap_or_default())
+    });
     verdict_of(scenario, cases)
 }
 

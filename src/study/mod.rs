@@ -18,7 +18,7 @@ use crate::checks::limits::{check_case, combine_states, verdict_of, JudgedState}
 use crate::checks::{verdict, CaseTemperatures, Verdict};
 use crate::curve::{curves, CurveOptions, PairCurve};
 use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult, Sampling};
-use crate::numeric::map_in_parallel;
+use crate::numeric::{map_each_in_parallel, map_in_parallel};
 use crate::scenario::Scenario;
 use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
 
@@ -364,35 +364,36 @@ impl Study {
                 simulate_case(s, &self.tables, c, &o)
             })?;
             let steady_runs = all_finite_runs(steady_runs)?;
-            let cases = s
+            // Each case judged on its own, the cases side by side.
+            let states: Vec<_> = s
                 .cases
                 .iter()
                 .zip(heat.iter().zip(runs.iter().zip(&steady_runs)))
-                .map(|(c, (h, (first, steady)))| {
-                    let at = |t: f64, magnet_c: Option<f64>| CaseTemperatures {
-                        peak_fin_temperature_c: judged.then_some(t),
-                        magnet_temp_c: magnet_c,
-                    };
-                    combine_states(&[
-                        (
-                            JudgedState::First,
-                            check_case(s, c, first, at(h.first_peak_fin_temperature_c, None)),
-                        ),
-                        (
-                            JudgedState::Steady,
-                            check_case(
-                                s,
-                                c,
-                                steady,
-                                at(
-                                    h.steady_peak_fin_temperature_c,
-                                    Some(h.judged_magnet_temp_c),
-                                ),
+                .collect();
+            let cases = map_each_in_parallel(&states, |&(c, (h, (first, steady)))| {
+                let at = |t: f64, magnet_c: Option<f64>| CaseTemperatures {
+                    peak_fin_temperature_c: judged.then_some(t),
+                    magnet_temp_c: magnet_c,
+                };
+                combine_states(&[
+                    (
+                        JudgedState::First,
+                        check_case(s, c, first, at(h.first_peak_fin_temperature_c, None)),
+                    ),
+                    (
+                        JudgedState::Steady,
+                        check_case(
+                            s,
+                            c,
+                            steady,
+                            at(
+                                h.steady_peak_fin_temperature_c,
+                                Some(h.judged_magnet_temp_c),
                             ),
                         ),
-                    ])
-                })
-                .collect();
+                    ),
+                ])
+            });
             (verdict_of(s, cases), steady_runs)
         } else {
             let temps = judged_temperatures(s, &heat);
