@@ -1,6 +1,8 @@
 #!/bin/bash
-# Whole-process timings for the README's Speed table: the median wall time (ms) and the median
-# CPU time (ms, perf stat task-clock) of N runs (default 21) of each command, on the release binary.
+# Whole-process timings for the README's Speed table: for each command, the median wall time
+# (ms, from spawning the process to reaping it, no shell in between) and the median CPU time
+# (ms, user + system of the child from wait4's rusage, all its threads) of N runs (default 21),
+# the commands taken in turn so that a change of machine load hits them alike.
 # Usage: benches/whole-process.sh [BIN] [N]   (from the repository root; BIN defaults to
 # target/release/eddyzone). Wall times suffer when the machine is shared; CPU times less so.
 set -u
@@ -9,24 +11,29 @@ N=${2:-21}
 cd "$(dirname "$0")/.." || exit 2
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
-median() { sort -n | awk '{a[NR]=$1} END {print a[int((NR+1)/2)]}'; }
-measure() {
-  local label=$1; shift
-  : > "$tmp/wall"; : > "$tmp/cpu"
-  for _ in $(seq "$N"); do
-    local t0 t1
-    t0=$(date +%s%N)
-    "$@" > /dev/null 2>&1
-    t1=$(date +%s%N)
-    echo "($t1 - $t0) / 1000000" | bc -l >> "$tmp/wall"
-    perf stat -x, -e task-clock -o "$tmp/t" "$@" > /dev/null 2>&1
-    grep task-clock "$tmp/t" | cut -d, -f1 >> "$tmp/cpu"
-  done
-  printf '%-26s wall %8.2f ms   cpu %8.2f ms\n' "$label" "$(median < "$tmp/wall")" "$(median < "$tmp/cpu")"
-}
-measure "--version" "$BIN" --version
-measure "run small case" "$BIN" run benches/data/small-coaster.yaml
-measure "heat tower demo" "$BIN" heat scenarios/tower-catch-brake.yaml
-measure "check tower demo" "$BIN" check scenarios/tower-catch-brake.yaml
-measure "plan coaster plan demo" "$BIN" plan scenarios/coaster-plan.yaml
-measure "report coaster demo" "$BIN" report scenarios/coaster-brake-run.yaml --out "$tmp/report" --force
+python3 - "$BIN" "$N" "$tmp" <<'PY'
+import os, statistics, subprocess, sys, time
+binary, runs, tmp = sys.argv[1], int(sys.argv[2]), sys.argv[3]
+commands = [
+    ("--version", ["--version"]),
+    ("run small case", ["run", "benches/data/small-coaster.yaml"]),
+    ("heat tower demo", ["heat", "scenarios/tower-catch-brake.yaml"]),
+    ("check tower demo", ["check", "scenarios/tower-catch-brake.yaml"]),
+    ("plan coaster plan demo", ["plan", "scenarios/coaster-plan.yaml"]),
+    ("report coaster demo",
+     ["report", "scenarios/coaster-brake-run.yaml", "--out", f"{tmp}/report", "--force"]),
+]
+times = {label: ([], []) for label, _ in commands}
+for _ in range(runs):
+    for label, args in commands:
+        start = time.perf_counter()
+        child = subprocess.Popen([binary] + args, stdout=subprocess.DEVNULL,
+                                 stderr=subprocess.DEVNULL)
+        _, _, usage = os.wait4(child.pid, 0)
+        wall_ms = (time.perf_counter() - start) * 1e3
+        times[label][0].append(wall_ms)
+        times[label][1].append((usage.ru_utime + usage.ru_stime) * 1e3)
+for label, _ in commands:
+    wall, cpu = times[label]
+    print(f"{label:26s} wall {statistics.median(wall):8.2f} ms   cpu {statistics.median(cpu):8.2f} ms")
+PY
