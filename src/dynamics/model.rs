@@ -586,7 +586,7 @@ impl ActivePair {
 
     /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
     /// reference conductivity, N/m.
-    #[inline]
+    #[inline(always)]
     fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
         let per_m = match &self.spec.law {
             PairLaw::Table {

@@ -285,7 +285,7 @@ impl Ctx {
 
     /// [`Ctx::pair_force`] and the force per metre of overlap it is the product of (NaN for a
     /// fin with a temperature field, whose force is summed over the window's cells).
-    #[inline]
+    #[inline(always)]
     fn pair_force_and_rate<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> (f64, f64) {
         let (x, v) = (y[0], y[1]);
         let pair = &self.pairs[p];
