@@ -595,7 +595,7 @@ impl ActivePair {
 
     /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
     /// reference conductivity, N/m.
-    #[inline]
+    #[inline(always)]
     fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
         let per_m = match &self.spec.law {
             PairLaw::Table {
@@ -653,10 +653,18 @@ pub fn remanence_ratio(beta_per_k: f64, temp_c: f64, reference_c: f64) -> f64 {
     r.max(0.0)
 }
 
-/// Whether two pairs brake alike wherever the vehicle is: the same force law (the same shared
-/// table and end curve, or the same measured curve, with equal heights and lengths), the same
-/// overlap window and the same case ratios. Only the fin and section indices may differ.
+/// Whether two pairs brake alike wherever the vehicle is: the same force law ([`same_law`]) and
+/// the same overlap window. Only the fin and section indices may differ.
 pub fn same_brake(a: &ActivePair, b: &ActivePair) -> bool {
+    same_law(a, b) && a.spec.overlap == b.spec.overlap
+}
+
+/// Whether two pairs have the same drag per metre of overlap at every speed and fin
+/// temperature: the same force law (the same shared table and end curve, or the same measured
+/// curve, with equal heights and section lengths) and the same case ratios. Their overlap
+/// windows, fins and sections may differ: two sections of one design under one fin give that
+/// fin the same force per metre, bit for bit.
+pub fn same_law(a: &ActivePair, b: &ActivePair) -> bool {
     let law = match (&a.spec.law, &b.spec.law) {
         (
             PairLaw::Table {
@@ -679,8 +687,7 @@ pub fn same_brake(a: &ActivePair, b: &ActivePair) -> bool {
         }
         _ => false,
     };
-    law && a.spec.overlap == b.spec.overlap
-        && a.remanence_ratio == b.remanence_ratio
+    law && a.remanence_ratio == b.remanence_ratio
         && a.fin_alpha_per_k == b.fin_alpha_per_k
         && a.reference_resistivity_ratio == b.reference_resistivity_ratio
         && a.force_factor == b.force_factor

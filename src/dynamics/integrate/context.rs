@@ -6,7 +6,9 @@ use super::options::{RunOptions, Sampling, TempField};
 use super::pieces::{kinks, Frozen};
 use super::solver::SolverSettings;
 use crate::constants::STANDARD_GRAVITY_M_S2 as G;
-use crate::dynamics::model::{active_pairs, mirror_fins, ActivePair, BrakeTables};
+use crate::dynamics::model::{
+    active_pairs, mirror_fins, same_law, ActivePair, BrakeTables, PairLaw,
+};
 use crate::dynamics::track::{resistance_magnitude_n, TrackModel};
 use crate::scenario::{Case, Mount, Resistance, Scenario};
 
@@ -30,6 +32,13 @@ pub(super) struct Ctx {
     pub is_copy: Vec<bool>,
     /// Per pair: the fins of its copies (empty for most pairs), which take its force and heat.
     pub copy_fins: Vec<Vec<usize>>,
+    /// Per pair: the first pair of its fin with the same force law ([`same_law`]; itself for
+    /// most pairs, and always for a fin with a temperature field). Pairs of one group have the
+    /// same force per metre of overlap in every state, so a piece computes it once for the
+    /// group's consecutive pairs ([`Frozen::reuse`]).
+    pub law_group: Vec<usize>,
+    /// Some pair has a measured force curve (whose speed range a run may leave).
+    pub measured: bool,
 }
 
 /// A track fin's temperature field as the force law reads it: per cell the inverse of the
@@ -115,7 +124,7 @@ impl<'a> CaseSetup<'a> {
                 _ => None,
             })
             .collect();
-        let fin_fields = match &options.track_fin_fields {
+        let fin_fields: Vec<Option<FieldLaw>> = match &options.track_fin_fields {
             Some(f) if f.len() == n_fins => f
                 .iter()
                 .zip(&scenario.fins)
@@ -134,6 +143,10 @@ impl<'a> CaseSetup<'a> {
             lateral: pairs.iter().any(ActivePair::has_lateral),
             is_copy: vec![false; pairs.len()],
             copy_fins: vec![Vec::new(); pairs.len()],
+            law_group: law_groups(&pairs, &fin_fields),
+            measured: pairs
+                .iter()
+                .any(|p| matches!(p.spec.law, PairLaw::Measured { .. })),
             pairs,
             fin_capacity_j_k,
             fin_start_c,
@@ -167,6 +180,22 @@ impl<'a> CaseSetup<'a> {
     }
 }
 
+/// Per pair: the first pair of the same fin with the same force law ([`same_law`]), or the pair
+/// itself (always for a fin with a temperature field, whose force depends on the window).
+fn law_groups(pairs: &[ActivePair], fin_fields: &[Option<FieldLaw>]) -> Vec<usize> {
+    (0..pairs.len())
+        .map(|q| {
+            let fin = pairs[q].spec.fin;
+            if fin_fields.get(fin).is_some_and(Option::is_some) {
+                return q;
+            }
+            (0..q)
+                .find(|&p| pairs[p].spec.fin == fin && same_law(&pairs[p], &pairs[q]))
+                .unwrap_or(q)
+        })
+        .collect()
+}
+
 impl Ctx {
     /// Marks the pairs of mirror fins that start at the same temperatures (equal start, heat
     /// capacity and field) as copies of their originals: the run evaluates each force once and
@@ -194,6 +223,7 @@ impl Ctx {
     }
 
     /// Temperature of `fin` in the state `y`, °C.
+    #[inline]
     pub fn fin_temp<const N: usize>(&self, fin: usize, y: &State<N>) -> f64 {
         match self.fin_capacity_j_k[fin] {
             Some(c) => self.fin_start_c[fin] + y[4 + fin] / c,
@@ -209,11 +239,21 @@ impl Ctx {
         for p in dy.iter_mut().skip(4).take(self.n_fins) {
             *p = 0.0;
         }
-        for &(p, a, b) in &fr.pairs {
+        // The force per metre of the last pair evaluated, reused by the next pairs of its law
+        // group: the same number the pair's own evaluation gives.
+        let mut per_m = 0.0;
+        for (&(p, a, b), &reuse) in fr.pairs.iter().zip(&fr.reuse) {
             if self.is_copy[p] {
                 continue;
             }
-            let f = self.pair_force(p, a + b * x, y);
+            let ov = a + b * x;
+            let f = if reuse {
+                per_m * ov
+            } else {
+                let (f, rate) = self.pair_force_and_rate(p, ov, y);
+                per_m = rate;
+                f
+            };
             brake -= f;
             dy[4 + self.pairs[p].spec.fin] += f * v;
             for &fin in &self.copy_fins[p] {
@@ -221,8 +261,7 @@ impl Ctx {
                 dy[4 + fin] += f * v;
             }
         }
-        let gravity = fr.gravity.force_n(self.mass_kg, x);
-        let cos_theta = fr.gravity.cos_theta(x);
+        let (gravity, cos_theta) = fr.gravity.force_and_cos(self.mass_kg, x);
         let resistance = -fr.dir
             * resistance_magnitude_n(
                 &self.resistance,
@@ -241,12 +280,22 @@ impl Ctx {
     /// the force on the vehicle along +s is its negative.
     #[inline]
     pub fn pair_force<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> f64 {
+        self.pair_force_and_rate(p, ov, y).0
+    }
+
+    /// [`Ctx::pair_force`] and the force per metre of overlap it is the product of (NaN for a
+    /// fin with a temperature field, whose force is summed over the window's cells).
+    #[inline(always)]
+    fn pair_force_and_rate<const N: usize>(&self, p: usize, ov: f64, y: &State<N>) -> (f64, f64) {
         let (x, v) = (y[0], y[1]);
         let pair = &self.pairs[p];
         let fin = pair.spec.fin;
         match &self.fin_fields[fin] {
-            Some(field) => field_force(pair, field, x, v, ov),
-            None => pair.force_per_m_n(v, self.fin_temp(fin, y)) * ov,
+            Some(field) => (field_force(pair, field, x, v, ov), f64::NAN),
+            None => {
+                let per_m = pair.force_per_m_n(v, self.fin_temp(fin, y));
+                (per_m * ov, per_m)
+            }
         }
     }
 

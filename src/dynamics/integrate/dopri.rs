@@ -189,6 +189,9 @@ pub(super) struct Stepper<const N: usize> {
     alpha: f64,
     settings: SolverSettings,
     k: [State<N>; 7],
+    /// Entries in use (the rest stay 0 in every state and derivative, and add nothing to any
+    /// sum; the error norm still divides by N).
+    used: usize,
 }
 
 impl<const N: usize> Stepper<N> {
@@ -214,7 +217,21 @@ impl<const N: usize> Stepper<N> {
             alpha: 0.2 - 0.75 * settings.beta,
             settings: *settings,
             k: [[0.0; N]; 7],
+            used: N,
         }
+    }
+
+    /// Only the first `used` entries (at most N) are stepped: the caller's right-hand side
+    /// leaves the others 0, as they are in the start state and derivative. The steps are the
+    /// same, bit for bit, as stepping all N (0 adds nothing to a sum; the error norm still
+    /// divides by N).
+    pub fn using(mut self, used: usize) -> Self {
+        // With atol = 0 an unused entry's error scale is 0 and its 0/0 enters the norm: step
+        // them all then, as before.
+        if self.settings.atol > 0.0 {
+            self.used = used.min(N);
+        }
+        self
     }
 
     /// The first step from the derivatives at the start and one explicit Euler step (Hairer,
@@ -222,9 +239,10 @@ impl<const N: usize> Stepper<N> {
     /// returns `h`.
     pub fn initial_step(&mut self, rhs: &mut impl FnMut(&State<N>, &mut State<N>)) -> f64 {
         let s = &self.settings;
+        let n = self.used.min(N);
         let f0 = self.f;
         let (mut d0, mut d1) = (0.0, 0.0);
-        for i in 0..N {
+        for i in 0..n {
             let sc = s.atol + self.y[i].abs() * s.rtol;
             d0 += (self.y[i] / sc) * (self.y[i] / sc);
             d1 += (f0[i] / sc) * (f0[i] / sc);
@@ -239,7 +257,7 @@ impl<const N: usize> Stepper<N> {
         let mut f1 = [0.0; N];
         rhs(&y1, &mut f1);
         let mut d2 = 0.0;
-        for i in 0..N {
+        for i in 0..n {
             let sc = s.atol + self.y[i].abs() * s.rtol;
             d2 += ((f1[i] - f0[i]) / sc) * ((f1[i] - f0[i]) / sc);
         }
@@ -291,6 +309,7 @@ impl<const N: usize> Stepper<N> {
         t: f64,
     ) -> State<N> {
         let h = t - self.dense.t0;
+        let n = self.used.min(N);
         let y0 = self.dense.r[0];
         let mut k = [[0.0; N]; 6];
         k[0] = self.k[0];
@@ -298,7 +317,7 @@ impl<const N: usize> Stepper<N> {
         for stage in 1..7 {
             y = y0;
             for (j, a) in A[stage - 1].iter().enumerate().take(stage) {
-                for i in 0..N {
+                for i in 0..n {
                     y[i] += k[j][i] * h * a;
                 }
             }
@@ -318,6 +337,7 @@ impl<const N: usize> Stepper<N> {
     ) -> Result<Option<f64>, StepFailure> {
         let h = self.h;
         let s = self.settings;
+        let n = self.used.min(N);
         self.k[0] = self.f;
         let mut y_next = [0.0; N];
         let mut y_stiff = [0.0; N];
@@ -325,7 +345,7 @@ impl<const N: usize> Stepper<N> {
             y_next = self.y;
             for (j, a) in A[stage - 1].iter().enumerate().take(stage) {
                 let kj = &self.k[j];
-                for i in 0..N {
+                for i in 0..n {
                     y_next[i] += kj[i] * h * a;
                 }
             }
@@ -339,7 +359,7 @@ impl<const N: usize> Stepper<N> {
         // k[6] is the derivative at the new point.
         let mut dense4 = [0.0; N];
         let mut err = 0.0;
-        for i in 0..N {
+        for i in 0..n {
             dense4[i] = (k[0][i] * D[0]
                 + k[2][i] * D[2]
                 + k[3][i] * D[3]
@@ -386,7 +406,7 @@ impl<const N: usize> Stepper<N> {
             || self.stiff_hits > 0
         {
             let (mut num, mut den) = (0.0, 0.0);
-            for i in 0..N {
+            for i in 0..n {
                 let dk = k[6][i] - k[5][i];
                 let dy = y_next[i] - y_stiff[i];
                 num += dk * dk;
@@ -412,7 +432,7 @@ impl<const N: usize> Stepper<N> {
         }
 
         let mut r = [[0.0; N]; 5];
-        for i in 0..N {
+        for i in 0..n {
             let ydiff = y_next[i] - self.y[i];
             let bspl = k[0][i] * h - ydiff;
             r[0][i] = self.y[i];

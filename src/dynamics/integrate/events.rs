@@ -82,9 +82,12 @@ impl Watch {
 pub(super) fn first_event<const N: usize>(d: &Dense<N>, watch: &Watch) -> (f64, Option<Event>) {
     let (a, b) = (d.t0, d.t1());
     let g_at = |tt: f64, e: Event| watch.g_of(e, d.value(0, tt), d.value(1, tt));
+    // Position and speed at the step's ends, once for every event.
+    let (xa, va) = (d.value(0, a), d.value(1, a));
+    let (xb, vb) = (d.value(0, b), d.value(1, b));
     let mut best: Option<(f64, Event)> = None;
     for e in EVENTS {
-        let (ga, gb) = (g_at(a, e), g_at(b, e));
+        let (ga, gb) = (watch.g_of(e, xa, va), watch.g_of(e, xb, vb));
         if ga > 0.0 && gb <= 0.0 {
             let te = locate(
                 a,

@@ -17,6 +17,12 @@ pub(super) struct Frozen {
     pub dir: f64,
     /// Σα and Σβ over the pairs: the total overlap is Σα + Σβ·x.
     pub overlap_sum: (f64, f64),
+    /// Per entry of `pairs`: its force per metre of overlap is that of the entry before it (the
+    /// same fin and law group, [`Ctx::law_group`], neither a mirror copy), so the right-hand
+    /// side evaluates it once for both.
+    pub reuse: Vec<bool>,
+    /// Mean curvature of the track under the vehicle on this piece, 1/m (constant on a piece).
+    pub curvature_1_m: f64,
 }
 
 /// Sorted, de-duplicated kink positions of the front.
@@ -63,6 +69,8 @@ impl Frozen {
             gravity: track.frozen(0.0, 1.0),
             dir: 1.0,
             overlap_sum: (0.0, 0.0),
+            reuse: Vec::new(),
+            curvature_1_m: 0.0,
         }
     }
 
@@ -81,7 +89,15 @@ impl Frozen {
                 let (a, b) = p.spec.overlap.linear(mid);
                 (a != 0.0 || b != 0.0).then_some((i, a, b))
             }));
+        self.reuse.clear();
+        self.reuse.push(false);
+        self.reuse.extend(self.pairs.windows(2).map(|w| {
+            let (p, q) = (w[0].0, w[1].0);
+            ctx.law_group[p] == ctx.law_group[q] && !ctx.is_copy[p] && !ctx.is_copy[q]
+        }));
+        self.reuse.truncate(self.pairs.len());
         self.gravity = track.frozen(mid, 1.0);
+        self.curvature_1_m = self.gravity.mean_curvature_1_m();
         self.dir = dir;
         self.overlap_sum = self
             .pairs

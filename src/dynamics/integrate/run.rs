@@ -195,11 +195,12 @@ impl<const N: usize> RunState<N> {
     /// overlapping pair (the curve is held at its last value there).
     pub fn warn_outside_measured(&mut self, setup: &CaseSetup<'_>) {
         let (ctx, frozen, y) = (&setup.ctx, &self.frozen, &self.y);
-        if self.in_zone()
+        if ctx.measured
+            && self.in_zone()
             && !self.measured_warned
-            && ctx.pairs.iter().enumerate().any(|(i, p)| {
-                frozen.pairs.iter().any(|q| q.0 == i)
-                    && !p.covers(y[1], ctx.fin_temp(p.spec.fin, y))
+            && frozen.pairs.iter().any(|&(i, _, _)| {
+                let p = &ctx.pairs[i];
+                !p.covers(y[1], ctx.fin_temp(p.spec.fin, y))
             })
         {
             self.measured_warned = true;

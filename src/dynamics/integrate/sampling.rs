@@ -217,7 +217,7 @@ fn derived(ctx: &Ctx, fr: &Frozen, m: Motion, event: bool) -> Sample {
         gravity_force_n: gravity,
         resistance_force_n: resistance,
         cos_theta,
-        curvature_1_m: fr.gravity.mean_curvature_1_m(),
+        curvature_1_m: fr.curvature_1_m,
         overlap_m: overlap,
         event,
     }

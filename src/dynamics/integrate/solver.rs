@@ -117,7 +117,8 @@ pub(super) fn step_piece<const N: usize>(
     mut on_step: impl FnMut(&Dense<N>, f64),
 ) -> Result<PieceEnd<N>, (f64, IntegrationCause)> {
     let mut rhs = |y: &State<N>, dy: &mut State<N>| ctx.eval(frozen, y, dy);
-    let mut stepper = Stepper::new(settings, start.t, start.y, start.f, start.h);
+    let mut stepper =
+        Stepper::new(settings, start.t, start.y, start.f, start.h).using(4 + ctx.n_fins);
     let mut end = PieceEnd {
         t_stop: t_end,
         y_stop: start.y,
