@@ -102,7 +102,7 @@ pub fn fin_capacity(
         if let PairLaw::Table { model, .. } = &p.law {
             let g = model.geometry();
             if let Some(loss) = SheetLoss::new(g.pole_pitch_m, fin.height_m, g.pole_height_m) {
-                let peak = loss.peak_per_m();
+                let peak = remembered(&KNOWN_PEAKS, loss, |l| l.peak_per_m());
                 if sheet.is_none() || peak > peak_per_m {
                     peak_per_m = peak;
                     sheet = Some(loss);
@@ -145,26 +145,45 @@ pub fn fin_capacities(
         .collect()
 }
 
-/// [`sheet_weights`] for a profile of `height_m` in [`HEIGHT_CELLS`] cells, remembered for the
-/// process: every heat study of a plan or a sweep asks for the same few fins again.
-fn usual_weights(height_m: f64, sheet: Option<&SheetLoss>) -> Vec<f64> {
-    type Known = Vec<((f64, Option<SheetLoss>), Vec<f64>)>;
-    static KNOWN: std::sync::Mutex<Known> = std::sync::Mutex::new(Vec::new());
-    let key = (height_m, sheet.copied());
-    if let Ok(known) = KNOWN.lock() {
-        if let Some((_, w)) = known.iter().find(|(k, _)| *k == key) {
-            return w.clone();
+/// Values remembered for the process, by key: every heat study of a plan or a sweep asks for the
+/// same few fin designs again.
+type Remembered<K, V> = std::sync::Mutex<Vec<(K, V)>>;
+
+/// The peak loss densities of the sheet distributions met so far (1/m).
+static KNOWN_PEAKS: Remembered<SheetLoss, f64> = std::sync::Mutex::new(Vec::new());
+
+/// The height weights met so far, by fin height and loss distribution.
+static KNOWN_WEIGHTS: Remembered<(f64, Option<SheetLoss>), Vec<f64>> =
+    std::sync::Mutex::new(Vec::new());
+
+/// `compute(key)`, remembered in `store` (a bounded memory: a scenario has a handful of fin
+/// designs; past 64 keys values are computed again).
+fn remembered<K: PartialEq + Clone, V: Clone>(
+    store: &Remembered<K, V>,
+    key: K,
+    compute: impl FnOnce(&K) -> V,
+) -> V {
+    if let Ok(known) = store.lock() {
+        if let Some((_, v)) = known.iter().find(|(k, _)| *k == key) {
+            return v.clone();
         }
     }
-    let profile = HeightProfile::uniform(height_m, 0.0, HEIGHT_CELLS, 0.0);
-    let weights = sheet_weights(&profile, sheet);
-    if let Ok(mut known) = KNOWN.lock() {
-        // A bounded memory: a scenario has a handful of fin designs.
+    let value = compute(&key);
+    if let Ok(mut known) = store.lock() {
         if known.len() < 64 {
-            known.push((key, weights.clone()));
+            known.push((key, value.clone()));
         }
     }
-    weights
+    value
+}
+
+/// [`sheet_weights`] for a profile of `height_m` in [`HEIGHT_CELLS`] cells, remembered for the
+/// process.
+fn usual_weights(height_m: f64, sheet: Option<&SheetLoss>) -> Vec<f64> {
+    remembered(&KNOWN_WEIGHTS, (height_m, sheet.copied()), |(h, sheet)| {
+        let profile = HeightProfile::uniform(*h, 0.0, HEIGHT_CELLS, 0.0);
+        sheet_weights(&profile, sheet.as_ref())
+    })
 }
 
 /// Shares of a deposit across the cells of `profile` for the loss distribution `sheet` (even
