@@ -249,6 +249,59 @@ fn pair_kernel(kappa: f64, a: f64, y: f64, yp: f64, single_sheet: bool) -> f64 {
     }
 }
 
+/// [`pair_kernel`] for every lamina pair at one κ, with the exponentials the sheets share
+/// computed once: e^(−2κ(a − y_l)) and e^(−2κ(a + y_l)) per lamina and e^(−4κa) once, instead of
+/// four per sheet. The same operations in the same order on the same operands as
+/// [`sheet_kernel`], so the same values to the last bit (κ(a + (−y)) is κ(a − y) exactly).
+struct SharedKernel {
+    /// κ(a − y_l) and κ(a + y_l).
+    p: Vec<f64>,
+    q: Vec<f64>,
+    /// e^(−2p_l) and e^(−2q_l).
+    ep: Vec<f64>,
+    eq: Vec<f64>,
+}
+
+impl SharedKernel {
+    fn new(count: usize) -> Self {
+        Self {
+            p: vec![0.0; count],
+            q: vec![0.0; count],
+            ep: vec![0.0; count],
+            eq: vec![0.0; count],
+        }
+    }
+
+    /// Writes `weight`·pair_kernel(κ, a, y_li, y_lj) into `out[li·n + lj]` for li ≤ lj.
+    fn fill(&mut self, kappa: f64, a: f64, ys: &[f64], single: bool, weight: f64, out: &mut [f64]) {
+        for (l, &y) in ys.iter().enumerate() {
+            self.p[l] = kappa * (a - y);
+            self.q[l] = kappa * (a + y);
+            self.ep[l] = (-2.0 * self.p[l]).exp();
+            self.eq[l] = (-2.0 * self.q[l]).exp();
+        }
+        let c = 2.0 * kappa * a;
+        let pre = MU0_H_M * kappa * 0.5;
+        let denom = -(-2.0 * c).exp_m1();
+        // One sheet with its upper end at lamina `hi` (p) and its lower end at `lo` (q, or the
+        // mirror lamina −y_lo, whose κ(a + lo) is p of `lo`).
+        let sheet = |hi: usize, lo_p: f64, lo_e: f64| {
+            pre * (self.p[hi] + lo_p - c).exp() * (1.0 + self.ep[hi]) * (1.0 + lo_e) / denom
+        };
+        let nl = ys.len();
+        for li in 0..nl {
+            for lj in li..nl {
+                let (hi, lo) = if ys[li] >= ys[lj] { (li, lj) } else { (lj, li) };
+                let mut k = sheet(hi, self.q[lo], self.eq[lo]);
+                if !single {
+                    k += sheet(li, self.p[lj], self.ep[lj]);
+                }
+                out[li * nl + lj] = weight * k;
+            }
+        }
+    }
+}
+
 /// sin(x)/x, 1 at 0.
 fn sinc(x: f64) -> f64 {
     if x.abs() < 1e-4 {
@@ -329,13 +382,10 @@ impl FiniteHeightEdge {
         let mut fringed = vec![0.0; n];
         let mut phi = vec![0.0; m_count];
         let mut kern = vec![0.0; nl * nl];
+        let mut shared = SharedKernel::new(nl);
         let mut accumulate = |q: f64, weight: f64, phi: &[f64], r: &mut [f64]| {
             let kappa = q.hypot(k);
-            for (li, &yl) in ys.iter().enumerate() {
-                for (lj, &ylp) in ys.iter().enumerate().skip(li) {
-                    kern[li * nl + lj] = weight * pair_kernel(kappa, a, yl, ylp, single);
-                }
-            }
+            shared.fill(kappa, a, &ys, single, weight, &mut kern);
             for li in 0..nl {
                 for lj in li..nl {
                     let g = kern[li * nl + lj];
@@ -536,6 +586,30 @@ impl FiniteHeightEdge {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The shared-exponential kernels equal `pair_kernel` bit for bit, for one sheet and for
+    /// one to three lamina pairs, over κa from 1e-3 to 1e3.
+    #[test]
+    fn shared_kernel_is_pair_kernel_to_the_bit() {
+        let (a, half) = (0.0105, 0.0045);
+        for pairs in 0..=3 {
+            let (ys, _) = laminae(half, pairs);
+            let nl = ys.len();
+            let single = pairs == 0;
+            let mut shared = SharedKernel::new(nl);
+            let mut out = vec![0.0; nl * nl];
+            for i in 0..200 {
+                let kappa = 10f64.powf(-1.0 + 0.03 * f64::from(i));
+                shared.fill(kappa, a, &ys, single, 0.37, &mut out);
+                for li in 0..nl {
+                    for lj in li..nl {
+                        let want = 0.37 * pair_kernel(kappa, a, ys[li], ys[lj], single);
+                        assert_eq!(out[li * nl + lj].to_bits(), want.to_bits(), "κ = {kappa}");
+                    }
+                }
+            }
+        }
+    }
 
     #[test]
     fn hand_computed_values() {
