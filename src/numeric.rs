@@ -109,10 +109,10 @@ impl HermiteWeights {
     }
 }
 
-/// `f` over `items` in order, in parallel (rayon) when there are at least two, collecting the
-/// first error. One item runs on the calling thread, so a one-case command does not start the
-/// thread pool (its start — reading the CPU quota, spawning a thread per core — costs a small
-/// run more than the run itself).
+/// `f` over `items` in order, in parallel (rayon) when there are at least two; the first error
+/// in item order when any fails. One item runs on the calling thread, so a one-case command does
+/// not start the thread pool (its start — reading the CPU quota, spawning a thread per core —
+/// costs a small run more than the run itself).
 pub fn map_in_parallel<T, R, E, F>(items: &[T], f: F) -> Result<Vec<R>, E>
 where
     T: Sync,
@@ -120,16 +120,11 @@ where
     E: Send,
     F: Fn(&T) -> Result<R, E> + Sync + Send,
 {
-    use rayon::prelude::*;
-    if items.len() < 2 {
-        items.iter().map(f).collect()
-    } else {
-        items.par_iter().map(f).collect()
-    }
+    map_each_in_parallel(items, f).into_iter().collect()
 }
 
-/// [`map_in_parallel`] for a map that cannot fail: `f` over `items` in order, on the rayon
-/// pool when there are at least two.
+/// `f` over `items` in order, on the rayon pool when there are at least two (one item on the
+/// calling thread).
 pub fn map_each_in_parallel<T, R, F>(items: &[T], f: F) -> Vec<R>
 where
     T: Sync,

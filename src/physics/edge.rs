@@ -235,8 +235,20 @@ fn sheet_kernel(kappa: f64, a: f64, y: f64, yp: f64) -> f64 {
     let q = kappa * (a + lo);
     let c = 2.0 * kappa * a;
     // cosh p cosh q / sinh c = ½ e^{p+q−c} (1 + e^{−2p})(1 + e^{−2q}) / (1 − e^{−2c}).
-    MU0_H_M * kappa * 0.5 * (p + q - c).exp() * (1.0 + (-2.0 * p).exp()) * (1.0 + (-2.0 * q).exp())
-        / -(-2.0 * c).exp_m1()
+    sheet_from_parts(
+        MU0_H_M * kappa * 0.5,
+        p + q - c,
+        (-2.0 * p).exp(),
+        (-2.0 * q).exp(),
+        -(-2.0 * c).exp_m1(),
+    )
+}
+
+/// [`sheet_kernel`] from its parts: the prefactor μ0κ/2, p + q − c, e^(−2p), e^(−2q) and
+/// 1 − e^(−2c) (one formula for the plain and the shared-exponential kernels).
+#[inline(always)]
+fn sheet_from_parts(pre: f64, exponent: f64, ep: f64, eq: f64, denom: f64) -> f64 {
+    pre * exponent.exp() * (1.0 + ep) * (1.0 + eq) / denom
 }
 
 /// Kernel of a lamina pair: the sheet at y_l sees the sheets at +y_l' and −y_l' (same currents);
@@ -286,7 +298,7 @@ impl SharedKernel {
         // One sheet with its upper end at lamina `hi` (p) and its lower end at `lo` (q, or the
         // mirror lamina −y_lo, whose κ(a + lo) is p of `lo`).
         let sheet = |hi: usize, lo_p: f64, lo_e: f64| {
-            pre * (self.p[hi] + lo_p - c).exp() * (1.0 + self.ep[hi]) * (1.0 + lo_e) / denom
+            sheet_from_parts(pre, self.p[hi] + lo_p - c, self.ep[hi], lo_e, denom)
         };
         let nl = ys.len();
         for li in 0..nl {
