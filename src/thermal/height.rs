@@ -85,6 +85,8 @@ pub struct Modes {
     n: usize,
     /// cos(kπ(j + ½)/n), row k.
     basis: Vec<f64>,
+    /// The same values a cell at a time: row j holds cos(kπ(j + ½)/n) for every k.
+    by_cell: Vec<f64>,
     /// 1 − cos(kπ/n).
     shape: Vec<f64>,
 }
@@ -103,7 +105,13 @@ impl Modes {
         let shape = (0..n)
             .map(|k| 1.0 - (k as f64 * std::f64::consts::PI / nf).cos())
             .collect();
-        Self { n, basis, shape }
+        let by_cell = (0..n * n).map(|i| basis[(i % n) * n + i / n]).collect();
+        Self {
+            n,
+            basis,
+            by_cell,
+            shape,
+        }
     }
 
     /// The modes of `n` cells, built once per process for the usual [`HEIGHT_CELLS`] (every
@@ -193,30 +201,14 @@ impl Modes {
         let src = self.project(rise_k);
         let dz = profile.cell_m();
         let rate = 2.0 * profile.diffusivity_m2_s / (dz * dz);
-        let mut decay = vec![1.0; self.n];
-        let mut gain = vec![0.0; self.n];
-        let mut last_dt = f64::NAN;
+        let mut steps = StepCache::new(self.n);
         let mut watch = PeakWatch::new(self, &a);
         let mut moved = false;
         for &(dt, share) in pieces {
             if dt.is_nan() || dt <= 0.0 {
                 continue;
             }
-            let delta = dt - last_dt;
-            if delta != 0.0 && delta.abs() <= 1e-9 * dt {
-                // Δt off the last one by rounding (sample times k·dt differ in their last
-                // bits): e^(−μ(Δt + δ)) = e^(−μΔt)(1 − μδ) and the gain grows by e^(−μΔt)·δ,
-                // both to O((μδ)²), below 1e-18 of the values here.
-                for k in 0..self.n {
-                    let mu = rate * self.shape[k];
-                    gain[k] += decay[k] * delta;
-                    decay[k] *= 1.0 - mu * delta;
-                }
-                last_dt = dt;
-            } else if delta != 0.0 {
-                decays_and_gains(&self.shape, rate, dt, &mut decay, &mut gain);
-                last_dt = dt;
-            }
+            let (decay, gain) = steps.factors(&self.shape, rate, dt);
             let per_s = share / dt;
             for k in 0..self.n {
                 a[k] = a[k] * decay[k] + src[k] * per_s * gain[k];
@@ -231,15 +223,31 @@ impl Modes {
     }
 
     /// The values of the cells `cells` for the modal amplitudes `a`, written into `out`: the
-    /// same sums, in the same order, as [`Modes::reconstruct`] gives them (a mode at a time,
-    /// independent sums per cell).
+    /// same sums, in the same order, as [`Modes::reconstruct`] gives them (from 0, mode 0
+    /// first), four cells at a time in registers along their contiguous rows of `by_cell`.
     fn cell_values(&self, a: &[f64], cells: &[usize], out: &mut Vec<f64>) {
+        let n = self.n;
+        let a = &a[..n.min(a.len())];
+        let row = |j: usize| &self.by_cell[j * n..j * n + a.len()];
         out.clear();
-        out.resize(cells.len(), 0.0);
-        for (ak, row) in a.iter().zip(self.basis.chunks_exact(self.n)) {
-            for (t, &j) in out.iter_mut().zip(cells) {
-                *t += ak * row[j];
+        let mut quads = cells.chunks_exact(4);
+        for q in quads.by_ref() {
+            let (r0, r1, r2, r3) = (row(q[0]), row(q[1]), row(q[2]), row(q[3]));
+            let mut t = [0.0f64; 4];
+            for (k, ak) in a.iter().enumerate() {
+                t[0] += ak * r0[k];
+                t[1] += ak * r1[k];
+                t[2] += ak * r2[k];
+                t[3] += ak * r3[k];
             }
+            out.extend_from_slice(&t);
+        }
+        for &j in quads.remainder() {
+            let mut t = 0.0;
+            for (ak, b) in a.iter().zip(row(j)) {
+                t += ak * b;
+            }
+            out.push(t);
         }
     }
 
@@ -255,16 +263,69 @@ impl Modes {
     }
 }
 
+/// The decays and gains of the last three distinct step lengths: sample clocks split an
+/// interval at an event now and then (Δt, Δt₁, Δt − Δt₁, Δt, …), and the regular Δt stays.
+struct StepCache {
+    /// (Δt, decays, gains, last use), Δt NaN while empty.
+    slots: [(f64, Vec<f64>, Vec<f64>, u64); 3],
+    clock: u64,
+}
+
+impl StepCache {
+    fn new(n: usize) -> Self {
+        let slot = || (f64::NAN, vec![1.0; n], vec![0.0; n], 0);
+        Self {
+            slots: [slot(), slot(), slot()],
+            clock: 0,
+        }
+    }
+
+    /// e^(−μ_kΔt) and (1 − e^(−μ_kΔt))/μ_k of every mode for a step of `dt`.
+    fn factors(&mut self, shape: &[f64], rate: f64, dt: f64) -> (&[f64], &[f64]) {
+        self.clock += 1;
+        let near = self
+            .slots
+            .iter()
+            .position(|s| (dt - s.0).abs() <= 1e-9 * dt);
+        let i = match near {
+            Some(i) => {
+                let (last_dt, decay, gain, _) = &mut self.slots[i];
+                let delta = dt - *last_dt;
+                if delta != 0.0 {
+                    // Δt off a cached one by rounding (sample times k·dt differ in their
+                    // last bits): e^(−μ(Δt + δ)) = e^(−μΔt)(1 − μδ) and the gain grows by
+                    // e^(−μΔt)·δ, both to O((μδ)²), below 1e-18 of the values here.
+                    for ((s, e), g) in shape.iter().zip(decay.iter_mut()).zip(gain.iter_mut()) {
+                        let mu = rate * s;
+                        *g += *e * delta;
+                        *e *= 1.0 - mu * delta;
+                    }
+                    *last_dt = dt;
+                }
+                i
+            }
+            None => {
+                let i = (0..3).min_by_key(|&i| self.slots[i].3).unwrap_or(0);
+                let (last_dt, decay, gain, _) = &mut self.slots[i];
+                decays_and_gains(shape, rate, dt, decay, gain);
+                *last_dt = dt;
+                i
+            }
+        };
+        self.slots[i].3 = self.clock;
+        (&self.slots[i].1, &self.slots[i].2)
+    }
+}
+
 /// e^(−μ_kΔt) and (1 − e^(−μ_kΔt))/μ_k (→ Δt as μ → 0) of every mode k over a step, with
-/// μ_k = `rate`·`shape[k]`, into `decay` and `gain`. When every μ_kΔt ≤ 0.05 (a millisecond
-/// piece) from their Taylor series, e^(−x) = Σ (−x)^i/i! and (1 − e^(−x))/x = Σ (−x)^i/(i + 1)!
-/// summed to i = 10 (the first dropped term is below 0.05¹¹/11! ≈ 1e-22), one term at a time
-/// across the modes: the library's values to rounding at a fraction of the cost. Else the
-/// library functions.
+/// μ_k = `rate`·`shape[k]`, into `decay` and `gain`. When every μ_kΔt ≤ 0.1 (a piece of a
+/// few milliseconds) from their Taylor series, e^(−x) = Σ (−x)^i/i! and
+/// (1 − e^(−x))/x = Σ (−x)^i/(i + 1)! summed to the first m ≤ 10 whose next term
+/// x_max^(m+1)/(m+1)! is below 2⁻⁶⁰ (≈ 8.7e-19; at most 0.1¹¹/11! ≈ 2.5e-19 for m = 10), one
+/// term at a time across the modes: the library's values to rounding at a fraction of the
+/// cost. Else the library functions.
 fn decays_and_gains(shape: &[f64], rate: f64, dt: f64, decay: &mut [f64], gain: &mut [f64]) {
-    let fits = shape
-        .iter()
-        .all(|s| (0.0..=0.05).contains(&(rate * s * dt)));
+    let fits = shape.iter().all(|s| (0.0..=0.1).contains(&(rate * s * dt)));
     if !fits {
         for ((s, e), g) in shape.iter().zip(decay.iter_mut()).zip(gain.iter_mut()) {
             let mu = rate * s;
@@ -289,9 +350,15 @@ fn decays_and_gains(shape: &[f64], rate: f64, dt: f64, decay: &mut [f64], gain: 
         1.0 / 10.0,
         1.0 / 11.0,
     ];
+    let x_max = shape.iter().fold(0.0f64, |m, s| m.max(rate * s * dt));
+    let (mut terms, mut next) = (1, x_max * x_max / 2.0);
+    while terms < 10 && next > f64::powi(2.0, -60) {
+        terms += 1;
+        next *= x_max / (terms + 1) as f64;
+    }
     decay.fill(1.0);
     gain.fill(1.0);
-    for i in (1..=10).rev() {
+    for i in (1..=terms).rev() {
         for ((s, e), g) in shape.iter().zip(decay.iter_mut()).zip(gain.iter_mut()) {
             let x = rate * s * dt;
             *e = 1.0 - x * *e * INVERSE[i];
@@ -304,10 +371,11 @@ fn decays_and_gains(shape: &[f64], rate: f64, dt: f64, decay: &mut [f64], gain: 
 }
 
 /// The hottest cell of a profile stepped in modal amplitudes, without rebuilding every cell at
-/// every step. Since |cos| ≤ 1, no cell moves by more than D = Σ_k |a_k − a_k⁰| from its value
-/// at the last full rebuild (amplitudes a⁰, cells T⁰): only cells with T⁰_j + D at or above the
-/// running peak can beat it, and only those are summed (in the same order as a full rebuild,
-/// so the peak is the same to the last bit). When more than a third of the cells qualify, all
+/// every step. Mode 0 is 1 in every cell and |cos| ≤ 1 for the others, so no cell rises by more
+/// than (a_0 − a_0⁰) + D, D = Σ_{k≥1} |a_k − a_k⁰|, above its value at the last full rebuild
+/// (amplitudes a⁰, cells T⁰): only cells with T⁰_j + (a_0 − a_0⁰) + D at or above the running
+/// peak can beat it, and only those are summed (in the same order as a full rebuild,
+/// so the peak is the same to the last bit). When more than half of the cells qualify, all
 /// are rebuilt and become the new reference.
 struct PeakWatch {
     base_a: Vec<f64>,
@@ -316,16 +384,24 @@ struct PeakWatch {
     values: Vec<f64>,
 }
 
-/// Σ|x_i − y_i| and Σ|x_i| in four running sums (a bound: the order does not matter).
-fn drift_and_scale(x: &[f64], y: &[f64]) -> (f64, f64) {
+/// x₀ − y₀, Σ_{i≥1}|x_i − y_i| and Σ|x_i| (the last two in four running sums: bounds, the
+/// order does not matter). Mode 0 is the mean (its basis row is 1 in every cell), so it moves
+/// every cell alike and is kept with its sign.
+fn drift_and_scale(x: &[f64], y: &[f64]) -> (f64, f64, f64) {
     let (mut d, mut s) = ([0.0; 4], [0.0; 4]);
+    let mean = match (x.first(), y.first()) {
+        (Some(a), Some(b)) => a - b,
+        _ => 0.0,
+    };
     for (cx, cy) in x.chunks(4).zip(y.chunks(4)) {
         for i in 0..cx.len().min(cy.len()) {
             d[i] += (cx[i] - cy[i]).abs();
             s[i] += cx[i].abs();
         }
     }
-    (d.iter().sum(), s.iter().sum())
+    // Mode 0 was summed into d[0] as |x₀ − y₀|; take it out again.
+    d[0] -= mean.abs();
+    (mean, d.iter().sum::<f64>().max(0.0), s.iter().sum())
 }
 
 impl PeakWatch {
@@ -342,13 +418,13 @@ impl PeakWatch {
 
     /// The hottest cell for amplitudes `a` if it is above `peak`, else a value not above it.
     fn peak(&mut self, modes: &Modes, a: &[f64], peak: f64) -> f64 {
-        let (drift, scale) = drift_and_scale(a, &self.base_a);
+        let (mean, drift, scale) = drift_and_scale(a, &self.base_a);
         // Rounding of the sums (below 1e-15 of Σ|a|) kept well inside the margin.
-        let floor = peak - drift - 1e-12 * (1.0 + scale);
+        let floor = peak - mean - drift - 1e-12 * (1.0 + scale);
         self.candidates.clear();
         self.candidates
             .extend((0..modes.n).filter(|&j| self.base_t[j] >= floor));
-        if 3 * self.candidates.len() > modes.n {
+        if 2 * self.candidates.len() > modes.n {
             modes.reconstruct(a, &mut self.base_t);
             self.base_a.copy_from_slice(a);
             return self
@@ -630,11 +706,33 @@ mod tests {
         assert!(rebuilt < 4000, "some steps must be watched, not rebuilt");
     }
 
+    /// The gathered cells are the full rebuild's values to the last bit, for subsets of every
+    /// size (the four-at-a-time path and its remainder), in any order.
+    #[test]
+    fn cell_values_are_the_rebuild_values() {
+        let n = HEIGHT_CELLS;
+        let modes = Modes::new(n);
+        let a: Vec<f64> = (0..n)
+            .map(|k| (k as f64 * 0.7).sin() * 30.0 / (1.0 + k as f64))
+            .collect();
+        let mut full = vec![0.0; n];
+        modes.reconstruct(&a, &mut full);
+        let mut out = Vec::new();
+        for size in 0..=n {
+            let cells: Vec<usize> = (0..size).map(|i| (i * 7 + size) % n).collect();
+            modes.cell_values(&a, &cells, &mut out);
+            assert_eq!(out.len(), size);
+            for (v, &j) in out.iter().zip(&cells) {
+                assert_eq!(v.to_bits(), full[j].to_bits(), "size {size}, cell {j}");
+            }
+        }
+    }
+
     /// The series of a short step against the library's exp and exp_m1 (the definition), to
-    /// 1e-15 relative, over μΔt from 0 to the series' limit 0.05 and beyond it.
+    /// 1e-15 relative, over μΔt from 0 to the series' limit 0.1 and beyond it.
     #[test]
     fn decay_and_gain_match_the_library() {
-        for i in 0..=200 {
+        for i in 0..=400 {
             let x = f64::from(i) * 5e-4;
             let (mu, dt) = (if x == 0.0 { 0.0 } else { x / 1e-3 }, 1e-3);
             let (mut e, mut g) = ([0.0], [0.0]);
