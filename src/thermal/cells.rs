@@ -54,10 +54,11 @@ struct PieceNodes<'a> {
     sets: Vec<NodeSet>,
 }
 
-/// The speeds at the nodes of every cell of one cell grid under one unit over one piece
-/// (NaN: not computed yet).
+/// The speeds at the nodes of the cells one unit can reach over one piece, from cell `first`
+/// on (NaN: not computed yet).
 struct NodeSet {
     key: NodeKey,
+    first: usize,
     speeds: Vec<[f64; NODES]>,
 }
 
@@ -111,14 +112,16 @@ impl<'a> PathNodes<'a> {
 }
 
 impl PieceNodes<'_> {
-    /// The node set of `key` over this piece, for `n` cells (a new one when none has it).
-    fn set_for(&mut self, key: NodeKey, n: usize) -> usize {
+    /// The node set of `key` over this piece, for the cells [first, end) (a new one when none
+    /// has it; pairs with the same key reach the same cells).
+    fn set_for(&mut self, key: NodeKey, first: usize, end: usize) -> usize {
         if let Some(i) = self.sets.iter().position(|s| s.key == key) {
             return i;
         }
         self.sets.push(NodeSet {
             key,
-            speeds: vec![[f64::NAN; NODES]; n],
+            first,
+            speeds: vec![[f64::NAN; NODES]; end - first],
         });
         self.sets.len() - 1
     }
@@ -136,8 +139,13 @@ impl PieceNodes<'_> {
         if k_hi.min(n) <= k_lo {
             return;
         }
-        let set = self.set_for(node_key(pair, law), n);
-        let known = &mut self.sets[set].speeds;
+        let set = self.set_for(node_key(pair, law), k_lo, k_hi.min(n));
+        let NodeSet {
+            first,
+            speeds: known,
+            ..
+        } = &mut self.sets[set];
+        let first = *first;
         let speeds = &mut self.speeds;
         for (k, e) in energy.iter_mut().enumerate().take(k_hi.min(n)).skip(k_lo) {
             let c0 = (law.start_m + k as f64 * law.cell_m).max(s0);
@@ -149,7 +157,12 @@ impl PieceNodes<'_> {
             b.sort_by(f64::total_cmp);
             // σ(T)/σ_ref of the cell, once for its nodes (the number force_per_m_n forms).
             let sigma = pair.reference_resistivity_ratio / pair.resistivity_ratio(law.temps_c[k]);
-            let cell_speeds = &mut known[k];
+            // (A set found by key reaches the same cells; a fresh slot otherwise.)
+            let mut scratch = [f64::NAN; NODES];
+            let cell_speeds = match k.checked_sub(first).and_then(|i| known.get_mut(i)) {
+                Some(slot) => slot,
+                None => &mut scratch,
+            };
             let mut total = 0.0;
             for (i, w) in b.windows(2).enumerate() {
                 let (p, q) = (w[0].max(lo), w[1].min(hi));

@@ -294,8 +294,9 @@ pub fn run_pass_with(
     let pairs = active_pairs(scenario, tables, case);
     let mirror = mirror_fins(&pairs, n);
     let mut fins: Vec<FinPass> = Vec::with_capacity(n);
-    // The quadrature nodes' speeds, shared by the pairs of every track fin of the pass.
-    let mut nodes = PathNodes::new(&run.trajectory);
+    // The quadrature nodes' speeds, shared by the pairs of every track fin of the pass (made
+    // for the first track fin).
+    let mut nodes: Option<PathNodes<'_>> = None;
     for (i, state) in states.iter().enumerate() {
         let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
         // A mirror fin in the same state, with the same capacity and the same energy, heats
@@ -320,7 +321,7 @@ pub fn run_pass_with(
                     capacity: &caps[i],
                 };
                 field_pass(
-                    &mut nodes,
+                    nodes.get_or_insert_with(|| PathNodes::new(&run.trajectory)),
                     &mine,
                     field,
                     energy_j,
