@@ -542,15 +542,25 @@ impl ActivePair {
             return 0.0;
         };
         let scale = speed_m_s.abs() * self.reference_resistivity_ratio;
+        // The law's two lookups for the last conductivity met: parts in cells at the same
+        // temperature (a uniform field: every part) reuse them, the same numbers.
+        let mut last: Option<(u64, f64, f64)> = None;
         let sum: f64 = parts
             .map(|(inv_rho, part)| {
-                let sigma_ratio = self.reference_resistivity_ratio * inv_rho;
-                per_area(scale * inv_rho)
-                    * part
-                    * section_end_factor(
-                        section_ends.total_m_scaled(speed_m_s, sigma_ratio),
-                        *inverse_section_length_per_m,
-                    )
+                let (per_area_pa, end_factor) = match last {
+                    Some((bits, a, e)) if bits == inv_rho.to_bits() => (a, e),
+                    _ => {
+                        let sigma_ratio = self.reference_resistivity_ratio * inv_rho;
+                        let a = per_area(scale * inv_rho);
+                        let e = section_end_factor(
+                            section_ends.total_m_scaled(speed_m_s, sigma_ratio),
+                            *inverse_section_length_per_m,
+                        );
+                        last = Some((inv_rho.to_bits(), a, e));
+                        (a, e)
+                    }
+                };
+                per_area_pa * part * end_factor
             })
             .sum();
         let r2 = self.remanence_ratio * self.remanence_ratio;
@@ -594,9 +604,10 @@ impl ActivePair {
     }
 
     /// Force per metre of overlap at `speed_m_s` for a fin conductivity `sigma_ratio` × the law's
-    /// reference conductivity, N/m.
+    /// reference conductivity, N/m ([`ActivePair::force_per_m_n`] with `sigma_ratio` =
+    /// ρ_ref/ρ(T) computed by the caller, once for many speeds: the same number).
     #[inline(always)]
-    fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
+    pub fn force_per_m_at_sigma(&self, speed_m_s: f64, sigma_ratio: f64) -> f64 {
         let per_m = match &self.spec.law {
             PairLaw::Table {
                 table,
@@ -761,5 +772,62 @@ mod tests {
     fn remanence_ratio_linear() {
         // Br(80 °C)/Br(20 °C) = 1 − 0.0012·60 = 0.928.
         assert!((remanence_ratio(-0.0012, 80.0, 20.0) - 0.928).abs() < 1e-12);
+    }
+
+    /// The lookups reused for parts at the same conductivity give the force of the plain
+    /// computation (both lookups for every part) bit for bit: the tower demo's pair, parts in
+    /// runs of equal and of different conductivities, at several speeds of either sign.
+    #[test]
+    fn reused_lookups_match_the_plain_sum() {
+        let s = crate::scenario::load(std::path::Path::new(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/scenarios/tower-catch-brake.yaml"
+        )))
+        .expect("demo loads");
+        let tables = BrakeTables::build(&s).expect("tables");
+        let pairs = active_pairs(&s, &tables, &s.cases[2]);
+        let pair = &pairs[0];
+        let PairLaw::Table {
+            table,
+            section_ends,
+            active_height_m,
+            inverse_section_length_per_m,
+            ..
+        } = &pair.spec.law
+        else {
+            panic!("a table law")
+        };
+        let parts = [
+            (0.91, 0.013),
+            (0.91, 0.05),
+            (0.91, 0.05),
+            (0.87, 0.05),
+            (0.87, 0.05),
+            (0.91, 0.05),
+            (0.8, 0.021),
+        ];
+        for v in [-23.0f64, 0.4, 3.0, 11.7, 25.2] {
+            let plain: f64 = parts
+                .iter()
+                .map(|&(inv_rho, part)| {
+                    let sigma = pair.reference_resistivity_ratio * inv_rho;
+                    table.force_per_area_pa(v.abs() * pair.reference_resistivity_ratio * inv_rho)
+                        * part
+                        * section_end_factor(
+                            section_ends.total_m_scaled(v, sigma),
+                            *inverse_section_length_per_m,
+                        )
+                })
+                .sum();
+            let r2 = pair.remanence_ratio * pair.remanence_ratio;
+            let plain = pair.force_factor * r2 * plain * active_height_m;
+            let plain = if v < 0.0 { -plain } else { plain };
+            let reused = pair.force_over_parts_n(v, parts.iter().copied());
+            assert_eq!(
+                reused.to_bits(),
+                plain.to_bits(),
+                "{v} m/s: {reused} vs {plain}"
+            );
+        }
     }
 }

@@ -31,72 +31,162 @@ const GAUSS4: [(f64, f64); 4] = [
     (0.861_136_311_594_052_6, 0.347_854_845_137_453_9),
 ];
 
-/// Energy per cell of the field's fin over the run's path, unscaled (J): every pair of the fin
-/// (`mine`) over every piece, with the force per metre at each cell's temperature in `law`.
-pub fn cell_energies(path: &[PathStep], mine: &[&ActivePair], law: &TempField) -> Vec<f64> {
-    let n = law.temps_c.len();
-    let mut energy = vec![0.0; n];
-    for piece in pieces(path) {
-        let mut speeds = PieceSpeeds::new(piece);
-        let Some((xa, xb)) = speeds.span_m() else {
-            continue;
-        };
-        let (lo, hi) = (xa.min(xb), xa.max(xb));
-        if hi - lo <= 0.0 {
-            continue;
-        }
-        for pair in mine {
-            add_pair(&mut speeds, pair, law, lo, hi, &mut energy);
-        }
-    }
-    energy
+/// Nodes of a cell's quadrature: 3 on the entry ramp, 4 on the plateau, 3 on the exit ramp.
+const NODES: usize = 10;
+
+/// The first node of each of the three intervals among a cell's [`NODES`].
+const FIRST_NODE: [usize; 3] = [0, 3, 7];
+
+/// The run's path, piece by piece, with the speeds at the quadrature nodes remembered. The
+/// nodes of a pair over a cell depend only on the cell's edges, the unit's offset and length
+/// and the piece, so pairs on different fins with the same cell grid and the same units (the
+/// twin fins of a two-face brake) have the same nodes to the last bit, and each node's speed (a
+/// Newton inversion of the step polynomial) is computed once for all of them.
+pub struct PathNodes<'a> {
+    pieces: Vec<PieceNodes<'a>>,
 }
 
-/// The cells one pair heats while the front moves over [lo, hi] during `piece`.
-fn add_pair(
-    speeds: &mut PieceSpeeds<'_>,
-    pair: &ActivePair,
-    law: &TempField,
+/// One piece of the path: its speed lookup, its span and the node sets met on it.
+struct PieceNodes<'a> {
+    speeds: PieceSpeeds<'a>,
     lo: f64,
     hi: f64,
-    energy: &mut [f64],
-) {
+    sets: Vec<NodeSet>,
+}
+
+/// The speeds at the nodes of the cells one unit can reach over one piece, from cell `first`
+/// on (NaN: not computed yet).
+struct NodeSet {
+    key: NodeKey,
+    first: usize,
+    speeds: Vec<[f64; NODES]>,
+}
+
+/// What the nodes of a pair's cells depend on, bit for bit: the field's first cell edge and cell
+/// length, the track element's ends and the vehicle element's offset and length.
+type NodeKey = [u64; 6];
+
+fn node_key(pair: &ActivePair, law: &TempField) -> NodeKey {
     let ov = &pair.spec.overlap;
-    let (o, l) = (ov.vehicle_offset_m, ov.vehicle_len_m);
-    let (s0, s1) = (ov.track_start_m, ov.track_end_m());
-    let n = energy.len();
-    // Cells whose window range [c0 + o, c1 + o + l] meets [lo, hi].
-    let k_lo = ((lo - o - l - law.start_m) / law.cell_m).floor().max(0.0) as usize;
-    let k_hi = (((hi - o - law.start_m) / law.cell_m).floor().max(-1.0) + 1.0) as usize;
-    for (k, e) in energy.iter_mut().enumerate().take(k_hi.min(n)).skip(k_lo) {
-        let c0 = (law.start_m + k as f64 * law.cell_m).max(s0);
-        let c1 = (law.start_m + (k + 1) as f64 * law.cell_m).min(s1);
-        if c1 <= c0 {
-            continue;
+    [
+        law.start_m,
+        law.cell_m,
+        ov.track_start_m,
+        ov.track_end_m(),
+        ov.vehicle_offset_m,
+        ov.vehicle_len_m,
+    ]
+    .map(f64::to_bits)
+}
+
+impl<'a> PathNodes<'a> {
+    /// The pieces of `path`, with no speed computed yet.
+    pub fn new(path: &'a [PathStep]) -> Self {
+        let pieces = pieces(path)
+            .filter_map(|piece| {
+                let speeds = PieceSpeeds::new(piece);
+                let (xa, xb) = speeds.span_m()?;
+                let (lo, hi) = (xa.min(xb), xa.max(xb));
+                (hi - lo > 0.0).then_some(PieceNodes {
+                    speeds,
+                    lo,
+                    hi,
+                    sets: Vec::new(),
+                })
+            })
+            .collect();
+        Self { pieces }
+    }
+
+    /// Energy per cell of the field's fin over the path, unscaled (J): every pair of the fin
+    /// (`mine`) over every piece, with the force per metre at each cell's temperature in `law`.
+    pub fn cell_energies(&mut self, mine: &[&ActivePair], law: &TempField) -> Vec<f64> {
+        let mut energy = vec![0.0; law.temps_c.len()];
+        for piece in &mut self.pieces {
+            for pair in mine {
+                piece.add_pair(pair, law, &mut energy);
+            }
         }
-        let mut b = [c0 + o, c1 + o, c0 + o + l, c1 + o + l];
-        b.sort_by(f64::total_cmp);
-        let temp = law.temps_c[k];
-        let mut total = 0.0;
-        for (i, w) in b.windows(2).enumerate() {
-            let (p, q) = (w[0].max(lo), w[1].min(hi));
-            if q - p <= 0.0 {
+        energy
+    }
+}
+
+impl PieceNodes<'_> {
+    /// The node set of `key` over this piece, for the cells [first, end) (a new one when none
+    /// has it; pairs with the same key reach the same cells).
+    fn set_for(&mut self, key: NodeKey, first: usize, end: usize) -> usize {
+        if let Some(i) = self.sets.iter().position(|s| s.key == key) {
+            return i;
+        }
+        self.sets.push(NodeSet {
+            key,
+            first,
+            speeds: vec![[f64::NAN; NODES]; end - first],
+        });
+        self.sets.len() - 1
+    }
+
+    /// The cells one pair heats while the front moves over the piece.
+    fn add_pair(&mut self, pair: &ActivePair, law: &TempField, energy: &mut [f64]) {
+        let ov = &pair.spec.overlap;
+        let (o, l) = (ov.vehicle_offset_m, ov.vehicle_len_m);
+        let (s0, s1) = (ov.track_start_m, ov.track_end_m());
+        let (lo, hi) = (self.lo, self.hi);
+        let n = energy.len();
+        // Cells whose window range [c0 + o, c1 + o + l] meets [lo, hi].
+        let k_lo = ((lo - o - l - law.start_m) / law.cell_m).floor().max(0.0) as usize;
+        let k_hi = (((hi - o - law.start_m) / law.cell_m).floor().max(-1.0) + 1.0) as usize;
+        if k_hi.min(n) <= k_lo {
+            return;
+        }
+        let set = self.set_for(node_key(pair, law), k_lo, k_hi.min(n));
+        let NodeSet {
+            first,
+            speeds: known,
+            ..
+        } = &mut self.sets[set];
+        let first = *first;
+        let speeds = &mut self.speeds;
+        for (k, e) in energy.iter_mut().enumerate().take(k_hi.min(n)).skip(k_lo) {
+            let c0 = (law.start_m + k as f64 * law.cell_m).max(s0);
+            let c1 = (law.start_m + (k + 1) as f64 * law.cell_m).min(s1);
+            if c1 <= c0 {
                 continue;
             }
-            let rule: &[(f64, f64)] = if i == 1 { &GAUSS4 } else { &GAUSS3 };
-            let (mid, half) = (0.5 * (p + q), 0.5 * (q - p));
-            let mut sum = 0.0;
-            for &(xi, wt) in rule {
-                let x = mid + half * xi;
-                let len = ov.length_within_m(x, c0, c1);
-                if len > 0.0 {
-                    let v = speeds.speed_at(x);
-                    sum += wt * pair.force_per_m_n(v, temp).abs() * len;
+            let mut b = [c0 + o, c1 + o, c0 + o + l, c1 + o + l];
+            b.sort_by(f64::total_cmp);
+            // σ(T)/σ_ref of the cell, once for its nodes (the number force_per_m_n forms).
+            let sigma = pair.reference_resistivity_ratio / pair.resistivity_ratio(law.temps_c[k]);
+            // (A set found by key reaches the same cells; a fresh slot otherwise.)
+            let mut scratch = [f64::NAN; NODES];
+            let cell_speeds = match k.checked_sub(first).and_then(|i| known.get_mut(i)) {
+                Some(slot) => slot,
+                None => &mut scratch,
+            };
+            let mut total = 0.0;
+            for (i, w) in b.windows(2).enumerate() {
+                let (p, q) = (w[0].max(lo), w[1].min(hi));
+                if q - p <= 0.0 {
+                    continue;
                 }
+                let rule: &[(f64, f64)] = if i == 1 { &GAUSS4 } else { &GAUSS3 };
+                let (mid, half) = (0.5 * (p + q), 0.5 * (q - p));
+                let mut sum = 0.0;
+                for (j, &(xi, wt)) in rule.iter().enumerate() {
+                    let x = mid + half * xi;
+                    let len = ov.length_within_m(x, c0, c1);
+                    if len > 0.0 {
+                        let v = &mut cell_speeds[FIRST_NODE[i] + j];
+                        if v.is_nan() {
+                            *v = speeds.speed_at(x);
+                        }
+                        sum += wt * pair.force_per_m_at_sigma(*v, sigma).abs() * len;
+                    }
+                }
+                total += half * sum;
             }
-            total += half * sum;
+            *e += total;
         }
-        *e += total;
     }
 }
 
@@ -219,7 +309,7 @@ mod tests {
         let FinState::Field(field) = &states[0] else {
             panic!("track fin")
         };
-        let gauss = cell_energies(&run.trajectory, &mine, field);
+        let gauss = PathNodes::new(&run.trajectory).cell_energies(&mine, field);
         let mut reference = vec![0.0; gauss.len()];
         for step in &run.trajectory {
             let m = 256;
@@ -257,5 +347,98 @@ mod tests {
         let sum: f64 = gauss.iter().sum();
         let fin = run.fins[0].energy_j;
         assert!((sum / fin - 1.0).abs() < 1e-9, "{sum} vs {fin}");
+    }
+
+    /// The cell energies of one pair without any shared node (each cell's breaks from its own
+    /// edges, each node's speed inverted afresh): the computation [`PathNodes`] shares.
+    fn unshared_cell_energies(
+        path: &[PathStep],
+        mine: &[&ActivePair],
+        law: &TempField,
+    ) -> Vec<f64> {
+        let mut energy = vec![0.0; law.temps_c.len()];
+        for piece in pieces(path) {
+            let mut speeds = PieceSpeeds::new(piece);
+            let Some((xa, xb)) = speeds.span_m() else {
+                continue;
+            };
+            let (lo, hi) = (xa.min(xb), xa.max(xb));
+            for pair in mine {
+                let ov = &pair.spec.overlap;
+                let (o, l) = (ov.vehicle_offset_m, ov.vehicle_len_m);
+                for (k, e) in energy.iter_mut().enumerate() {
+                    let c0 = (law.start_m + k as f64 * law.cell_m).max(ov.track_start_m);
+                    let c1 = (law.start_m + (k + 1) as f64 * law.cell_m).min(ov.track_end_m());
+                    if c1 <= c0 {
+                        continue;
+                    }
+                    let mut b = [c0 + o, c1 + o, c0 + o + l, c1 + o + l];
+                    b.sort_by(f64::total_cmp);
+                    let mut total = 0.0;
+                    for (i, w) in b.windows(2).enumerate() {
+                        let (p, q) = (w[0].max(lo), w[1].min(hi));
+                        if q - p <= 0.0 {
+                            continue;
+                        }
+                        let rule: &[(f64, f64)] = if i == 1 { &GAUSS4 } else { &GAUSS3 };
+                        let (mid, half) = (0.5 * (p + q), 0.5 * (q - p));
+                        let sum: f64 = rule
+                            .iter()
+                            .map(|&(xi, wt)| {
+                                let x = mid + half * xi;
+                                let len = ov.length_within_m(x, c0, c1);
+                                let v = speeds.speed_at(x);
+                                wt * pair.force_per_m_n(v, law.temps_c[k]).abs() * len
+                            })
+                            .sum();
+                        total += half * sum;
+                    }
+                    *e += total;
+                }
+            }
+        }
+        energy
+    }
+
+    /// Sharing the nodes' speeds among the pairs of both fins gives the cell energies of the
+    /// unshared computation bit for bit: an N−1 case of the tower demo (one unit out on the
+    /// east face, so the fins differ), second pass (the cells at different temperatures), every
+    /// cell of both fins. The east face's three units share the west face's node sets, so
+    /// each piece has at most four.
+    #[test]
+    fn shared_node_speeds_match_the_unshared_computation() {
+        let s = tower();
+        let tables = BrakeTables::build(&s).expect("tables");
+        let case = s
+            .cases
+            .iter()
+            .find(|c| c.name == "full/without-E-2")
+            .expect("an N-1 case");
+        let caps = crate::thermal::pass::fin_capacities(&s, &tables).expect("capacities");
+        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
+        let first =
+            crate::thermal::pass::run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps)
+                .expect("first pass");
+        let heated: Vec<FinState> = first.fins.iter().map(|f| f.end.clone()).collect();
+        let second =
+            crate::thermal::pass::run_pass_with(&s, &tables, case, &heated, true, 5e-3, &caps)
+                .expect("second pass");
+        let path = &second.run.trajectory;
+        let pairs = active_pairs(&s, &tables, case);
+        let mut nodes = PathNodes::new(path);
+        for (fin, state) in heated.iter().enumerate() {
+            let FinState::Field(field) = state else {
+                panic!("track fin")
+            };
+            let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == fin).collect();
+            let shared = nodes.cell_energies(&mine, field);
+            let plain = unshared_cell_energies(path, &mine, field);
+            assert!(plain.iter().sum::<f64>() > 0.0);
+            for (k, (a, b)) in shared.iter().zip(&plain).enumerate() {
+                assert_eq!(a.to_bits(), b.to_bits(), "fin {fin} cell {k}: {a} vs {b}");
+            }
+        }
+        assert!(nodes.pieces.iter().all(|p| p.sets.len() <= 4));
+        assert!(nodes.pieces.iter().any(|p| p.sets.len() == 4));
     }
 }

@@ -27,7 +27,7 @@
 //! cells conduct into each other during and after the pass. The force law reads their mean; the
 //! hottest cell is the fin's peak.
 
-use super::cells::cell_energies;
+use super::cells::PathNodes;
 use super::height::{diffusivity_m2_s, height_weights, HeightProfile, Modes, HEIGHT_CELLS};
 use super::sheet::SheetLoss;
 use super::ThermalError;
@@ -294,6 +294,9 @@ pub fn run_pass_with(
     let pairs = active_pairs(scenario, tables, case);
     let mirror = mirror_fins(&pairs, n);
     let mut fins: Vec<FinPass> = Vec::with_capacity(n);
+    // The quadrature nodes' speeds, shared by the pairs of every track fin of the pass (made
+    // for the first track fin).
+    let mut nodes: Option<PathNodes<'_>> = None;
     for (i, state) in states.iter().enumerate() {
         let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
         // A mirror fin in the same state, with the same capacity and the same energy, heats
@@ -318,7 +321,7 @@ pub fn run_pass_with(
                     capacity: &caps[i],
                 };
                 field_pass(
-                    &run,
+                    nodes.get_or_insert_with(|| PathNodes::new(&run.trajectory)),
                     &mine,
                     field,
                     energy_j,
@@ -405,7 +408,7 @@ struct TrackFin<'a> {
 /// carries, and the rise of each cell. The force law reads the field's temperatures, or
 /// `uncoupled_c` everywhere when given.
 fn field_pass(
-    run: &RunResult,
+    nodes: &mut PathNodes<'_>,
     mine: &[&ActivePair],
     field: &TempField,
     energy_j: f64,
@@ -419,7 +422,7 @@ fn field_pass(
         },
         None => field.clone(),
     };
-    let energy = cell_energies(&run.trajectory, mine, &law_field);
+    let energy = nodes.cell_energies(mine, &law_field);
     let sum: f64 = energy.iter().sum();
     let (scale, correction) = if sum > 0.0 {
         (energy_j / sum, (energy_j / sum - 1.0).abs())
