@@ -271,6 +271,7 @@ fn the_corpus_goes_through_without_panic_or_hang() {
         let stage = pipeline(text, name);
         let expected_valid = [
             "rtol-1.1e-14.yaml",
+            "start-beyond-the-zone.yaml",
             "colliding-and-long-names.yaml",
             "tower-fin-0.1-mm.yaml",
             "coaster-fin-0.1-mm.yaml",
