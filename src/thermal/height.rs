@@ -158,8 +158,7 @@ impl Modes {
         let theta: Vec<f64> = profile.temps_c.iter().map(|t| t - base).collect();
         let a = self.project(&theta);
         let s = source_k_s.map(|q| self.project(q));
-        let dz = profile.cell_m();
-        let rate = 2.0 * profile.diffusivity_m2_s / (dz * dz);
+        let rate = rate_of(profile);
         let next: Vec<f64> = (0..self.n)
             .map(|k| {
                 let mu = rate * self.shape[k] + cool;
