@@ -140,42 +140,47 @@ where
 }
 
 /// `a()` and `b()` side by side, their results as a pair: on the rayon pool's work stealing when
-/// called from inside it (a sweep's or planner's parallel loop), else with `b` on one scoped
+/// called from inside it (a sweep's or planner's parallel loop), else with `b` offered to one
 /// thread of its own — so a one-case command builds a table's independent parts on both cores
-/// without starting the pool. If the thread cannot be started, `b` runs after `a` on the caller.
-/// A panic in `b` is carried over to the caller.
+/// without starting the pool. Whoever comes first runs `b`: when `a` is done and the thread has
+/// not yet taken `b` (a new thread can take a millisecond to be scheduled on a virtual machine),
+/// the caller runs it itself instead of waiting, and the late thread finds nothing to do. If the
+/// thread cannot be started, `b` runs after `a` on the caller. A panic in `b` is carried over
+/// to the caller.
 pub fn join<A, B, RA, RB>(a: A, b: B) -> (RA, RB)
 where
     A: FnOnce() -> RA + Send,
-    B: FnOnce() -> RB + Send,
+    B: FnOnce() -> RB + Send + 'static,
     RA: Send,
-    RB: Send,
+    RB: Send + 'static,
 {
+    use std::panic::{catch_unwind, resume_unwind, AssertUnwindSafe};
+    use std::sync::{mpsc, Arc, Mutex};
     if rayon::current_thread_index().is_some() {
         return rayon::join(a, b);
     }
-    let b = std::sync::Mutex::new(Some(b));
-    std::thread::scope(|scope| {
-        let spawned = std::thread::Builder::new().spawn_scoped(scope, || {
-            b.lock().ok().and_then(|mut g| g.take()).map(|f| f())
-        });
-        let ra = a();
-        let from_thread = match spawned {
-            Ok(handle) => match handle.join() {
-                Ok(rb) => rb,
-                Err(payload) => std::panic::resume_unwind(payload),
-            },
-            Err(_) => None,
-        };
-        let rb = match from_thread {
-            Some(rb) => rb,
-            None => match b.lock().ok().and_then(|mut g| g.take()) {
-                Some(f) => f(),
-                None => std::panic::resume_unwind(Box::new("join: the second task was lost")),
-            },
-        };
-        (ra, rb)
-    })
+    let task = Arc::new(Mutex::new(Some(b)));
+    let offered = Arc::clone(&task);
+    let (done, result) = mpsc::sync_channel(1);
+    // Detached: the caller never waits for the thread itself, only for a result it has claimed
+    // to compute; a thread that claims nothing ends on its own.
+    let _ = std::thread::Builder::new().spawn(move || {
+        let claimed = offered.lock().ok().and_then(|mut slot| slot.take());
+        if let Some(f) = claimed {
+            let _ = done.send(catch_unwind(AssertUnwindSafe(f)));
+        }
+    });
+    let ra = a();
+    let unclaimed = task.lock().ok().and_then(|mut slot| slot.take());
+    let rb = match unclaimed {
+        Some(f) => f(),
+        None => match result.recv() {
+            Ok(Ok(rb)) => rb,
+            Ok(Err(payload)) => resume_unwind(payload),
+            Err(_) => resume_unwind(Box::new("join: the second task was lost")),
+        },
+    };
+    (ra, rb)
 }
 
 #[cfg(test)]
@@ -248,19 +253,43 @@ mod tests {
         assert_eq!(map_in_parallel(&[7u32], square), Err(7));
     }
 
-    /// `join` gives both results in order from the caller's thread (one scoped thread) and
-    /// from inside the pool (rayon's join), and the second task really runs on another thread
-    /// outside the pool.
+    /// `join` gives both results in order from the caller's thread and from inside the pool
+    /// (rayon's join); the second task runs on another thread when that thread takes it first
+    /// (here `a` waits until it has), and on the caller when `a` ends first; a panic in the
+    /// second task reaches the caller.
     #[test]
     fn join_runs_both_tasks_outside_and_inside_the_pool() {
+        use std::sync::atomic::{AtomicBool, Ordering};
+        use std::sync::Arc;
+        use std::time::{Duration, Instant};
         let caller = std::thread::current().id();
-        let (a, (b, b_thread)) = join(|| 6 * 7, || ("b", std::thread::current().id()));
+        let started = Arc::new(AtomicBool::new(false));
+        let flag = Arc::clone(&started);
+        let (a, (b, b_thread)) = join(
+            || {
+                let t0 = Instant::now();
+                while !started.load(Ordering::Acquire) && t0.elapsed() < Duration::from_secs(20) {
+                    std::thread::yield_now();
+                }
+                6 * 7
+            },
+            move || {
+                flag.store(true, Ordering::Release);
+                ("b", std::thread::current().id())
+            },
+        );
         assert_eq!((a, b), (42, "b"));
         assert_ne!(b_thread, caller);
+        // An instant `a`: `b` may run on either thread; the results are the same.
+        for i in 0..50 {
+            assert_eq!(join(|| i, move || i * 2), (i, i * 2));
+        }
         let inside = rayon::ThreadPoolBuilder::new()
             .num_threads(2)
             .build()
             .map(|pool| pool.install(|| join(|| 1, || 2)));
         assert_eq!(inside.ok(), Some((1, 2)));
+        let caught = std::panic::catch_unwind(|| join(|| 1, || -> i32 { panic!("second task") }));
+        assert!(caught.is_err());
     }
 }

@@ -365,7 +365,10 @@ fn pair_law(
                             };
                             Ok((model, table, lateral))
                         },
-                        || SectionEndCurve::new(&g, fin.material.conductivity_s_m, vmax),
+                        {
+                            let sigma_s_m = fin.material.conductivity_s_m;
+                            move || SectionEndCurve::new(&g, sigma_s_m, vmax)
+                        },
                     );
                     let (model, table, lateral) = built?;
                     let section_ends = Arc::new(

@@ -314,6 +314,89 @@ impl SharedKernel {
     }
 }
 
+/// The quadrature nodes of the reaction matrix, kept so that its sums run node-innermost: per
+/// node the pair kernels g(l, l′) (l ≤ l′, weight included) and the mode amplitudes φ_m, each
+/// node's amplitudes padded with zeros to a multiple of [`NodeSums::BLOCK`].
+///
+/// [`NodeSums::upper_triangle`] gives every element R[(l,m),(l′,n)] = Σ_q (g_q φ_qm) φ_qn as the
+/// per-node accumulation did, the same products added in the same node order from 0, so the same
+/// value to the last bit; only the loops are turned round, so that a block of the sums stays in
+/// registers while the nodes stream past.
+struct NodeSums {
+    laminae: usize,
+    modes: usize,
+    /// Padded length of one node's amplitudes.
+    stride: usize,
+    /// Pair kernels, node-major, `laminae·(laminae + 1)/2` per node.
+    kernels: Vec<f64>,
+    /// Mode amplitudes, node-major, `stride` per node.
+    amplitudes: Vec<f64>,
+}
+
+impl NodeSums {
+    /// Sums computed side by side in registers.
+    const BLOCK: usize = 8;
+
+    fn new(laminae: usize, modes: usize, nodes: usize) -> Self {
+        let stride = modes.div_ceil(Self::BLOCK) * Self::BLOCK;
+        let pairs = laminae * (laminae + 1) / 2;
+        Self {
+            laminae,
+            modes,
+            stride,
+            kernels: Vec::with_capacity(nodes * pairs),
+            amplitudes: Vec::with_capacity(nodes * stride),
+        }
+    }
+
+    /// Adds a node: `kernel[l·laminae + l′]` for l ≤ l′ and the amplitudes `phi` (one per mode).
+    fn push(&mut self, kernel: &[f64], phi: &[f64]) {
+        let nl = self.laminae;
+        for li in 0..nl {
+            self.kernels
+                .extend_from_slice(&kernel[li * nl + li..(li + 1) * nl]);
+        }
+        self.amplitudes.extend_from_slice(phi);
+        let padded = self.amplitudes.len().div_ceil(Self::BLOCK) * Self::BLOCK;
+        self.amplitudes.resize(padded, 0.0);
+    }
+
+    /// Writes the upper triangle of the reaction matrix (`n = laminae·modes` square, row-major,
+    /// index l·modes + m) into `r`; the rest of `r` is left as it is.
+    fn upper_triangle(&self, r: &mut [f64]) {
+        let (nl, m, stride) = (self.laminae, self.modes, self.stride);
+        let n = nl * m;
+        let pairs = nl * (nl + 1) / 2;
+        let count = self.amplitudes.len() / stride;
+        let mut gm = vec![0.0; count];
+        let mut pair = 0;
+        for li in 0..nl {
+            for lj in li..nl {
+                for mi in 0..m {
+                    for (q, g) in gm.iter_mut().enumerate() {
+                        *g = self.kernels[q * pairs + pair] * self.amplitudes[q * stride + mi];
+                    }
+                    let row = (li * m + mi) * n + lj * m;
+                    let start = if li == lj { mi } else { 0 };
+                    let mut j0 = start - start % Self::BLOCK;
+                    while j0 < m {
+                        let mut acc = [0.0; Self::BLOCK];
+                        for (&g, node) in gm.iter().zip(self.amplitudes.chunks_exact(stride)) {
+                            for (s, &x) in acc.iter_mut().zip(&node[j0..j0 + Self::BLOCK]) {
+                                *s += g * x;
+                            }
+                        }
+                        let (from, to) = (j0.max(start), (j0 + Self::BLOCK).min(m));
+                        r[row + from..row + to].copy_from_slice(&acc[from - j0..to - j0]);
+                        j0 += Self::BLOCK;
+                    }
+                }
+                pair += 1;
+            }
+        }
+    }
+}
+
 /// sin(x)/x, 1 at 0.
 fn sinc(x: f64) -> f64 {
     if x.abs() < 1e-4 {
@@ -395,23 +478,13 @@ impl FiniteHeightEdge {
         let mut phi = vec![0.0; m_count];
         let mut kern = vec![0.0; nl * nl];
         let mut shared = SharedKernel::new(nl);
-        let mut accumulate = |q: f64, weight: f64, phi: &[f64], r: &mut [f64]| {
+        // Every node's kernel values and mode amplitudes, then the sums over the nodes
+        // (`NodeSums`): the nodes of the panels, then those of the tail, in order.
+        let mut nodes = NodeSums::new(nl, m_count, 8 * (panels + 1));
+        let mut add_node = |q: f64, weight: f64, phi: &[f64]| {
             let kappa = q.hypot(k);
             shared.fill(kappa, a, &ys, single, weight, &mut kern);
-            for li in 0..nl {
-                for lj in li..nl {
-                    let g = kern[li * nl + lj];
-                    for mi in 0..m_count {
-                        let gm = g * phi[mi];
-                        let row = (li * m_count + mi) * n + lj * m_count;
-                        let start = if li == lj { mi } else { 0 };
-                        for (x, &pn) in r[row + start..row + m_count].iter_mut().zip(&phi[start..])
-                        {
-                            *x += gm * pn;
-                        }
-                    }
-                }
-            }
+            nodes.push(&kern, phi);
         };
         for panel in 0..panels {
             let mid = (panel as f64 + 0.5) * width;
@@ -432,7 +505,7 @@ impl FiniteHeightEdge {
                     sign = -sign;
                 }
                 let weight = 0.5 * width * wg / PI;
-                accumulate(q, weight, &phi, &mut r);
+                add_node(q, weight, &phi);
                 if pole_field == PoleField::Fringing {
                     // s_lm = (1/π)∫ φ̂_m(q) B̂_s(q) dq with B̂_s = box̂(q)·S(κ)cosh(κ y_l)/S(k).
                     let kappa = q.hypot(k);
@@ -459,8 +532,9 @@ impl FiniteHeightEdge {
                 let sign = if mi % 2 == 0 { 1.0 } else { -1.0 };
                 *f = sign * (2.0 * q_max).sqrt() * pm * t / (q_max * q_max - pm * pm * t * t);
             }
-            accumulate(q, 0.5 * wg / PI, &phi, &mut r);
+            add_node(q, 0.5 * wg / PI, &phi);
         }
+        nodes.upper_triangle(&mut r);
         // Symmetric fill of the lower triangle.
         for i in 0..n {
             for j in 0..i {
@@ -617,6 +691,59 @@ mod tests {
                     for lj in li..nl {
                         let want = 0.37 * pair_kernel(kappa, a, ys[li], ys[lj], single);
                         assert_eq!(out[li * nl + lj].to_bits(), want.to_bits(), "κ = {kappa}");
+                    }
+                }
+            }
+        }
+    }
+
+    /// The node-innermost sums equal the per-node accumulation they replaced bit for bit (each
+    /// element gets the same products added in the same node order), for one sheet and for one
+    /// to three lamina pairs and mode counts on both sides of the register block; the elements
+    /// below the diagonal are left alone.
+    #[test]
+    fn node_sums_are_the_per_node_accumulation_to_the_bit() {
+        for (nl, m_count) in [(1, 1), (1, 8), (2, 7), (2, 19), (4, 9), (6, 24), (3, 17)] {
+            let n = nl * m_count;
+            let nodes = 37;
+            let mut sums = NodeSums::new(nl, m_count, nodes);
+            let mut per_node = vec![0.0; n * n];
+            // Deterministic values of both signs and wide range.
+            let value = |i: usize| {
+                ((i as f64 * 0.7548776662).fract() - 0.4) * 10f64.powi((i % 7) as i32 - 3)
+            };
+            for q in 0..nodes {
+                let kern: Vec<f64> = (0..nl * nl).map(|i| value(q * 131 + i)).collect();
+                let phi: Vec<f64> = (0..m_count).map(|i| value(q * 977 + 50 + i)).collect();
+                sums.push(&kern, &phi);
+                for li in 0..nl {
+                    for lj in li..nl {
+                        let g = kern[li * nl + lj];
+                        for mi in 0..m_count {
+                            let gm = g * phi[mi];
+                            let row = (li * m_count + mi) * n + lj * m_count;
+                            let start = if li == lj { mi } else { 0 };
+                            for mj in start..m_count {
+                                per_node[row + mj] += gm * phi[mj];
+                            }
+                        }
+                    }
+                }
+            }
+            let mut r = vec![f64::NAN; n * n];
+            sums.upper_triangle(&mut r);
+            for i in 0..n {
+                for j in 0..n {
+                    let (li, mi, lj, mj) = (i / m_count, i % m_count, j / m_count, j % m_count);
+                    let written = li < lj || (li == lj && mi <= mj);
+                    if written {
+                        assert_eq!(
+                            r[i * n + j].to_bits(),
+                            per_node[i * n + j].to_bits(),
+                            "{nl}×{m_count} at ({i}, {j})"
+                        );
+                    } else {
+                        assert!(r[i * n + j].is_nan(), "{nl}×{m_count}: ({i}, {j}) written");
                     }
                 }
             }
