@@ -73,7 +73,7 @@
 //! before the finite-height factor, kept for comparison). Either way the force depends on σ and
 //! v only through σ·v, and on Br as Br².
 
-use super::edge::{russell_norsworthy, EdgeModel, EdgeResolution, FiniteHeightEdge};
+use super::edge::{russell_norsworthy, EdgeModel, FiniteHeightEdge};
 use super::field::{gap_centre_amplitude_t, sinh_cosh_ratio, source_amplitude_t, wavenumber_per_m};
 use super::{positive, BrakeGeometry, PhysicsError};
 use crate::constants::MU0_H_M;
@@ -263,55 +263,51 @@ pub struct DragModel {
     low_speed_coefficient_pa_s_m: f64,
 }
 
-/// The finite-height factors of harmonics `orders` (in that order), computed in two groups side by
-/// side ([`join`]): each factor is independent of the others and costs about n²(n + 40) for its
-/// n = modes × laminae unknowns (the reaction matrix over the nodes and its eigen-decomposition),
-/// so the costliest go one by one to the lighter group.
-fn edge_factors(
+/// Orders whose finite-height factors are built before the harmonic selection is known: the
+/// fundamental is always kept and the third harmonic nearly always, and these two are the
+/// costliest factors (the most modes and lamina pairs, [`super::edge::EdgeResolution::for_harmonic`]).
+const EARLY_EDGE_ORDERS: [u32; 2] = [1, 3];
+
+/// The kept harmonics (`select`) with their finite-height factors (same order), with the factors
+/// of [`EARLY_EDGE_ORDERS`] built side by side with the selection ([`join`]) and the other kept
+/// orders' after it; a factor depends only on the geometry and its order, so each is the one
+/// built alone. An early factor whose order is not kept is dropped (its error too).
+fn edge_factors_beside<S>(
     geometry: &BrakeGeometry,
-    orders: &[u32],
-) -> Result<Vec<FiniteHeightEdge>, PhysicsError> {
-    let cost = |order: u32| {
-        let r = EdgeResolution::for_harmonic(geometry, order);
-        let n = (r.modes * (2 * r.lamina_pairs).max(1)) as f64;
-        n * n * (n + 40.0)
-    };
-    let mut by_cost: Vec<(usize, f64)> = orders.iter().map(|&o| cost(o)).enumerate().collect();
-    by_cost.sort_by(|x, y| y.1.total_cmp(&x.1));
-    let (mut mine, mut theirs) = (Vec::new(), Vec::new());
-    let (mut load_mine, mut load_theirs) = (0.0, 0.0);
-    for (i, c) in by_cost {
-        if load_theirs < load_mine {
-            theirs.push(i);
-            load_theirs += c;
-        } else {
-            mine.push(i);
-            load_mine += c;
-        }
-    }
-    let build = |g: BrakeGeometry, which: Vec<usize>, orders: Vec<u32>| {
-        which
-            .into_iter()
-            .map(|i| (i, FiniteHeightEdge::new(&g, orders[i])))
-            .collect::<Vec<_>>()
-    };
-    let (g, all) = (*geometry, orders.to_vec());
-    let (a, b) = join(|| build(g, mine, all.clone()), {
-        let all = all.clone();
-        move || build(g, theirs, all)
-    });
-    let mut slots: Vec<Option<FiniteHeightEdge>> = vec![None; orders.len()];
-    for (i, edge) in a.into_iter().chain(b) {
-        slots[i] = Some(edge?);
-    }
-    slots
-        .into_iter()
+    select: S,
+) -> Result<(Vec<HarmonicTerm>, Vec<FiniteHeightEdge>), PhysicsError>
+where
+    S: FnOnce() -> Vec<HarmonicTerm> + Send,
+{
+    let g = *geometry;
+    let ((terms, mut late), early) = join(
+        || {
+            let terms = select();
+            let late: Vec<_> = terms
+                .iter()
+                .filter(|t| !EARLY_EDGE_ORDERS.contains(&t.order))
+                .map(|t| FiniteHeightEdge::new(&g, t.order))
+                .collect();
+            (terms, late.into_iter())
+        },
+        move || EARLY_EDGE_ORDERS.map(|order| Some(FiniteHeightEdge::new(&g, order))),
+    );
+    let mut early = early;
+    let edges = terms
+        .iter()
+        .map(
+            |t| match EARLY_EDGE_ORDERS.iter().position(|&o| o == t.order) {
+                Some(i) => early[i].take(),
+                None => late.next(),
+            },
+        )
         .map(|e| {
-            e.ok_or(PhysicsError::Degenerate {
+            e.unwrap_or(Err(PhysicsError::Degenerate {
                 what: "the finite-height edge factor",
-            })
+            }))
         })
-        .collect()
+        .collect::<Result<Vec<_>, _>>()?;
+    Ok((terms, edges))
 }
 
 impl DragModel {
@@ -376,27 +372,27 @@ impl DragModel {
             .iter()
             .map(|&v| fundamental.force_over_speed(v) * weight(&fundamental))
             .collect();
-        let mut terms = vec![fundamental];
-        for order in (3..=HIGHEST_HARMONIC).step_by(2) {
-            let term =
-                HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, order, edge_model);
-            if !term.is_finite() {
-                continue;
+        let select = || {
+            let mut terms = vec![fundamental];
+            for order in (3..=HIGHEST_HARMONIC).step_by(2) {
+                let term =
+                    HarmonicTerm::new(geometry, remanence_t, conductivity_s_m, order, edge_model);
+                if !term.is_finite() {
+                    continue;
+                }
+                let keep = scan
+                    .iter()
+                    .zip(&base)
+                    .any(|(&v, &b)| term.force_over_speed(v) * weight(&term) >= TERM_THRESHOLD * b);
+                if keep {
+                    terms.push(term);
+                }
             }
-            let keep = scan
-                .iter()
-                .zip(&base)
-                .any(|(&v, &b)| term.force_over_speed(v) * weight(&term) >= TERM_THRESHOLD * b);
-            if keep {
-                terms.push(term);
-            }
-        }
-        let edges = match edge_model {
-            EdgeModel::FiniteHeight => {
-                let orders: Vec<u32> = terms.iter().map(|t| t.order).collect();
-                edge_factors(geometry, &orders)?
-            }
-            EdgeModel::RussellNorsworthyConductivity => Vec::new(),
+            terms
+        };
+        let (terms, edges) = match edge_model {
+            EdgeModel::FiniteHeight => edge_factors_beside(geometry, select)?,
+            EdgeModel::RussellNorsworthyConductivity => (select(), Vec::new()),
         };
 
         let mut model = DragModel {
@@ -677,31 +673,29 @@ mod tests {
         DragModel::new(&typical_geometry(), 1.25, 58e6).expect("valid typical model")
     }
 
-    /// The factors built in two groups side by side are the ones built one after the other, in
-    /// the order asked for (odd and even counts, a repeated order), and an invalid geometry's
-    /// error comes through.
+    /// The factors built beside the harmonic selection are the ones built alone, one per kept
+    /// harmonic in order, for several designs (fewer and more harmonics kept, thin and thick
+    /// fins, short and long pitches).
     #[test]
-    fn edge_factors_in_two_groups_are_the_sequential_ones() {
-        let g = typical_geometry();
-        for orders in [
-            vec![1],
-            vec![1, 3],
-            vec![1, 3, 5, 7, 9],
-            vec![9, 1, 1, 31, 3, 5],
+    fn edge_factors_beside_the_selection_are_the_ones_built_alone() {
+        for (pitch_m, thickness_m, sigma) in [
+            (0.05, 0.009, 25e6),
+            (0.1, 0.004, 58e6),
+            (0.03, 0.012, 58e6),
+            (0.2, 0.006, 20e6),
         ] {
-            let want: Vec<FiniteHeightEdge> = orders
+            let mut g = typical_geometry();
+            g.pole_pitch_m = pitch_m;
+            g.fin_thickness_m = thickness_m;
+            let model = DragModel::new(&g, 1.25, sigma).expect("valid");
+            let want: Vec<FiniteHeightEdge> = model
+                .terms
                 .iter()
-                .map(|&o| FiniteHeightEdge::new(&g, o).expect("valid"))
+                .map(|t| FiniteHeightEdge::new(&g, t.order).expect("valid"))
                 .collect();
-            assert_eq!(
-                edge_factors(&g, &orders).expect("valid"),
-                want,
-                "{orders:?}"
-            );
+            assert_eq!(model.edges, want, "pitch {pitch_m} m");
+            assert!(model.terms.len() >= 2, "pitch {pitch_m} m");
         }
-        let mut bad = g;
-        bad.pole_pitch_m = -1.0;
-        assert!(edge_factors(&bad, &[1, 3]).is_err());
     }
 
     /// The closed form of the brief, written out term by term with complex sinh/cosh from
