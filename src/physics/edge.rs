@@ -698,9 +698,9 @@ mod tests {
     }
 
     /// The node-innermost sums equal the per-node accumulation they replaced bit for bit (each
-    /// element gets the same products added in the same node order), for one sheet and for one
-    /// to three lamina pairs and mode counts on both sides of the register block; the elements
-    /// below the diagonal are left alone.
+    /// element gets the same products added in the same node order), for one to six laminae
+    /// (one sheet, one to three lamina pairs, and odd counts) and mode counts on both sides of
+    /// the register block; the elements below the diagonal are left alone.
     #[test]
     fn node_sums_are_the_per_node_accumulation_to_the_bit() {
         for (nl, m_count) in [(1, 1), (1, 8), (2, 7), (2, 19), (4, 9), (6, 24), (3, 17)] {
