@@ -280,7 +280,7 @@ where
     S: FnOnce() -> Vec<HarmonicTerm> + Send,
 {
     let g = *geometry;
-    let ((terms, mut late), early) = join(
+    let ((terms, mut late), mut early) = join(
         || {
             let terms = select();
             let late: Vec<_> = terms
@@ -292,7 +292,6 @@ where
         },
         move || EARLY_EDGE_ORDERS.map(|order| Some(FiniteHeightEdge::new(&g, order))),
     );
-    let mut early = early;
     let edges = terms
         .iter()
         .map(
