@@ -221,6 +221,11 @@ impl<const N: usize> Stepper<N> {
         }
     }
 
+    /// The entries in use (see [`Stepper::using`]).
+    pub fn used(&self) -> usize {
+        self.used.min(N)
+    }
+
     /// Only the first `used` entries (at most N) are stepped: the caller's right-hand side
     /// leaves the others 0, as they are in the start state and derivative. The steps are the
     /// same, bit for bit, as stepping all N (0 adds nothing to a sum; the error norm still

@@ -7,8 +7,14 @@
 //! side is smooth and the Dormand–Prince 5(4) method (Dormand & Prince, J. Comp. Appl. Math. 6,
 //! 1980; Hairer, Nørsett & Wanner, Solving Ordinary Differential Equations I, 1993; ode_solvers'
 //! `Dopri5`, chosen over `Dop853` because it provides the continuous output model) keeps its
-//! order. After each accepted step the event functions are checked; a sign change is located on
-//! the method's continuous output to 1e-9 s and the integration restarts from that state, so no step straddles a kink.
+//! order. A step that would carry the front past the piece's end is aimed at it (the root of the
+//! uniformly accelerated motion from the step's start). After each accepted step the event
+//! functions are checked; a sign change is located on the method's continuous output to 1e-9 s.
+//! A piece end within 1 % of the step's end (before it, or just past it on the output extended)
+//! ends the piece there on the continuous output, whose error near the step's end is ~1e-4 of
+//! its largest (it meets the end value and slope); any other event is re-stepped to, so the
+//! state there is as accurate as a step end. The integration restarts from that state, so no
+//! step straddles a kink.
 //!
 //! State: [x, v, E_brake, E_resistance, E_fin_0, …]: the dissipated energies are integrated with
 //! the motion, so the energy residual measures the integration error.

@@ -67,7 +67,13 @@ impl Sampler {
         t_hi: f64,
         res: &mut RunResult,
     ) {
-        let th_hi = ((t_hi - dense.t0) / dense.h).clamp(0.0, 1.0);
+        // A piece that ends just past the step (a step aimed at a kink that stopped short of
+        // it) is sampled on the continuous output extended to there.
+        let th_hi = if t_hi > dense.t1() {
+            (t_hi - dense.t0) / dense.h
+        } else {
+            ((t_hi - dense.t0) / dense.h).clamp(0.0, 1.0)
+        };
         let (position, speed) = (dense.poly(0), dense.poly(1));
         loop {
             let ts = self.next_k as f64 * self.dt_s;

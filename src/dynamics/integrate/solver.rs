@@ -4,6 +4,7 @@
 use super::context::Ctx;
 use super::dopri::{Dense, State, StepFailure, Stepper};
 use super::events::{first_event, Event, Watch, EVENTS};
+use super::loads::state_at;
 use super::pieces::Frozen;
 use crate::dynamics::IntegrationCause;
 use crate::scenario::Solver;
@@ -128,15 +129,26 @@ pub(super) fn step_piece<const N: usize>(
         steps: 0,
         rhs_evaluations: 0,
     };
+    // The piece's end in the direction of travel: steps are aimed at it, and one that ends
+    // within `NEAR_END` of it ends the piece there (see [`land_at_exit`]).
+    let (exit_x, exit_event) = if watch.dir > 0.0 {
+        (watch.hi, Event::PieceHigh)
+    } else {
+        (watch.lo, Event::PieceLow)
+    };
+    let mut landed_h = None;
     if t_end - start.t > 1e-12 {
         if start.h.is_nan() || start.h <= 0.0 {
             stepper.initial_step(&mut rhs);
         }
         let mut g_prev = watch.values(&start.y);
         loop {
+            let h_proposed = stepper.h;
+            let target = landing_time(&stepper, exit_x, t_end).unwrap_or(t_end);
             let last = stepper
-                .step(&mut rhs, t_end)
+                .step(&mut rhs, target)
                 .map_err(|e| (stepper.t, cause_of(e, settings)))?;
+            let aimed = last && target < t_end;
             let g = watch.values(&stepper.y);
             if (0..EVENTS.len()).any(|i| g_prev[i] > 0.0 && g[i] <= 0.0) {
                 let d = stepper.dense;
@@ -146,7 +158,12 @@ pub(super) fn step_piece<const N: usize>(
                         on_step(&d, t_stop);
                         end.t_stop = t_stop;
                         end.event = Some(event);
-                        end.y_stop = stepper.restep_to(&mut rhs, t_stop);
+                        end.y_stop = if event == exit_event && th >= 1.0 - NEAR_END {
+                            landed_h = aimed.then_some(h_proposed);
+                            state_at(&d, th, stepper.used())
+                        } else {
+                            stepper.restep_to(&mut rhs, t_stop)
+                        };
                         end.a_stop = d.rate_at_theta(1, th);
                     }
                     (_, None) => {
@@ -163,9 +180,22 @@ pub(super) fn step_piece<const N: usize>(
                 }
                 break;
             }
+            if aimed {
+                let d = stepper.dense;
+                if let Some(th) = land_at_exit(&d, exit_x, watch, &g, stepper.used()) {
+                    let t_stop = d.t0 + th * d.h;
+                    on_step(&d, t_stop);
+                    end.t_stop = t_stop;
+                    end.event = Some(exit_event);
+                    end.y_stop = state_at(&d, th, stepper.used());
+                    end.a_stop = d.rate_at_theta(1, th);
+                    landed_h = Some(h_proposed);
+                    break;
+                }
+            }
             on_step(&stepper.dense, stepper.t);
             g_prev = g;
-            if last {
+            if last && !aimed {
                 end.t_stop = stepper.t;
                 end.y_stop = stepper.y;
                 end.a_stop = stepper.f[1];
@@ -174,9 +204,155 @@ pub(super) fn step_piece<const N: usize>(
         }
     }
     // The next piece starts where this one's laws stopped holding: with the last step taken,
-    // not a grown proposal (a step across the kink said nothing about the new laws).
-    end.next_h = stepper.h.min(stepper.dense.h);
+    // not a grown proposal (a step across the kink said nothing about the new laws); after a
+    // step cut short to land on the kink, with the step proposed before the cut.
+    end.next_h = landed_h.unwrap_or_else(|| stepper.h.min(stepper.dense.h));
     end.steps = stepper.accepted;
     end.rhs_evaluations = stepper.evaluations;
     Ok(end)
+}
+
+/// How close to a step's end (as a share of the step) a piece end may lie for the piece to end
+/// there on the step's continuous output, without re-stepping to it. The continuous extension
+/// meets the step's end value and end derivative, so its error there grows like the square of
+/// the distance from the end: at 1 % of the step it is ~1e-4 of its largest, below the step's
+/// own local error.
+const NEAR_END: f64 = 0.01;
+
+/// The time at which the next step should end to land on the piece end `exit_x` when the
+/// proposed step would reach it (within the 1 % the stepper stretches a step by to meet its end
+/// time): the root of x + v·τ + a·τ²/2 = `exit_x` from the stepper's state and derivative. None
+/// when the step stays short of it, or the motion stops before it.
+fn landing_time<const N: usize>(stepper: &Stepper<N>, exit_x: f64, t_end: f64) -> Option<f64> {
+    let (x, v, a) = (stepper.y[0], stepper.y[1], stepper.f[1]);
+    let dist = exit_x - x;
+    if !dist.is_finite() || dist * v <= 0.0 {
+        return None;
+    }
+    let h = stepper.h.min(t_end - stepper.t);
+    // Far ahead even at the most the speed can grow by over the step: not this step.
+    if dist.abs() > 1.01 * h * (v.abs() + 0.5 * a.abs() * 1.01 * h) {
+        return None;
+    }
+    let disc = v * v + 2.0 * a * dist;
+    if disc <= 0.0 {
+        return None;
+    }
+    // τ = 2·dist/(v + sign(v)·√disc): the root of the same sign as the motion, without
+    // cancellation.
+    let tau = 2.0 * dist / (v + v.signum() * disc.sqrt());
+    (tau > 0.0 && tau <= 1.01 * h).then_some(stepper.t + tau)
+}
+
+/// The θ ∈ (1, 1 + `NEAR_END`] at which the continuous output of the step `d`, which was aimed
+/// at the piece end `exit_x` and stopped short of it, reaches it (Newton's method on the
+/// interpolant's position, which extends smoothly past the step's end), when no other event
+/// function in `watch` crosses zero there from its step-end value `g`. None: step on.
+fn land_at_exit<const N: usize>(
+    d: &Dense<N>,
+    exit_x: f64,
+    watch: &Watch,
+    g: &[f64; 6],
+    used: usize,
+) -> Option<f64> {
+    let mut th = 1.0;
+    for _ in 0..8 {
+        let (x, rate) = (d.value_at_theta(0, th), d.rate_at_theta(0, th) * d.h);
+        if rate == 0.0 || !rate.is_finite() {
+            return None;
+        }
+        let next = th - (x - exit_x) / rate;
+        if !(next.is_finite() && next > 1.0 && next <= 1.0 + NEAR_END) {
+            return None;
+        }
+        let done = (next - th).abs() <= 4.0 * f64::EPSILON;
+        th = next;
+        if done {
+            break;
+        }
+    }
+    let y = state_at(d, th, used);
+    let g_end = watch.values(&y);
+    let others_hold = (0..EVENTS.len()).all(|i| {
+        EVENTS[i] == Event::PieceHigh
+            || EVENTS[i] == Event::PieceLow
+            || !(g[i] > 0.0 && g_end[i] <= 0.0)
+    });
+    others_hold.then_some(th)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A stepper at x = 0 moving at `v` with acceleration `a` and the step `h` proposed.
+    fn moving(v: f64, a: f64, h: f64) -> Stepper<8> {
+        let mut y = [0.0; 8];
+        y[1] = v;
+        let mut f = [0.0; 8];
+        f[0] = v;
+        f[1] = a;
+        Stepper::new(&SolverSettings::default(), 2.0, y, f, h).using(4)
+    }
+
+    #[test]
+    fn a_step_is_aimed_at_the_root_of_the_uniformly_accelerated_motion() {
+        // 10·τ − τ² = 1: τ = 5 − √24.
+        let tau = 5.0 - 24f64.sqrt();
+        let t = landing_time(&moving(10.0, -2.0, 0.2), 1.0, 100.0).expect("reaches the kink");
+        assert!((t - (2.0 + tau)).abs() < 1e-14, "{t}");
+        // Backwards: the same motion mirrored.
+        let t = landing_time(&moving(-10.0, 2.0, 0.2), -1.0, 100.0).expect("reaches the kink");
+        assert!((t - (2.0 + tau)).abs() < 1e-14, "{t}");
+        // Within the 1 % the stepper stretches a step by: aimed.
+        assert!(landing_time(&moving(10.0, 0.0, 0.1), 1.005, 100.0).is_some());
+        // A step that stays short of it, a kink behind, a motion that stops before it, and an
+        // end time before it: not aimed.
+        assert!(landing_time(&moving(10.0, -2.0, 0.05), 1.0, 100.0).is_none());
+        assert!(landing_time(&moving(10.0, -2.0, 0.2), -1.0, 100.0).is_none());
+        assert!(landing_time(&moving(10.0, -200.0, 0.2), 1.0, 100.0).is_none());
+        assert!(landing_time(&moving(10.0, -2.0, 0.2), 1.0, 2.05).is_none());
+        assert!(landing_time(&moving(10.0, -2.0, 0.2), f64::INFINITY, 100.0).is_none());
+    }
+
+    /// The continuous output of x = t² on [0, 1] (exact for a quadratic), and a watch whose
+    /// piece ends at `hi`.
+    fn quadratic_step(hi: f64) -> (Dense<8>, Watch) {
+        let mut r = [[0.0; 8]; 5];
+        // y(θ) = r0 + θ(r1 + (1−θ)(r2 + θ(r3 + (1−θ)r4))) = θ²: r1 = 1, r2 = −1.
+        r[1][0] = 1.0;
+        r[2][0] = -1.0;
+        let d = Dense { t0: 0.0, h: 1.0, r };
+        let watch = Watch {
+            lo: f64::NEG_INFINITY,
+            hi,
+            dir: 1.0,
+            stall_active: false,
+            stall_speed: 0.0,
+            zone_end: 1e9,
+            zone_start: -1e9,
+            vehicle_len: 1.0,
+        };
+        (d, watch)
+    }
+
+    #[test]
+    fn a_step_short_of_its_kink_ends_the_piece_on_the_extended_output() {
+        // x = θ² reaches 1.01 at θ = √1.01 (within 1 % of the step's end).
+        let (d, watch) = quadratic_step(1.01);
+        let y1 = state_at(&d, 1.0, 4);
+        let g = watch.values(&y1);
+        let th = land_at_exit(&d, 1.01, &watch, &g, 4).expect("lands");
+        assert!((th - 1.01f64.sqrt()).abs() < 1e-15, "{th}");
+        // 1.03 is reached only at θ ≈ 1.0149: too far past the step to end there.
+        let (d, watch) = quadratic_step(1.03);
+        assert!(land_at_exit(&d, 1.03, &watch, &g, 4).is_none());
+        // Another event that would fire on the way (the rear clears the zone end at x = 1.005):
+        // step on instead.
+        let (d, mut watch) = quadratic_step(1.01);
+        watch.zone_end = 1.005 - watch.vehicle_len;
+        let g = watch.values(&y1);
+        assert!(g[4] > 0.0);
+        assert!(land_at_exit(&d, 1.01, &watch, &g, 4).is_none());
+    }
 }
