@@ -472,13 +472,18 @@ fn summarise(
         .collect()
 }
 
-/// Spearman's ρ of every variable against the values (sample index, value), by decreasing |ρ|.
+/// Spearman's ρ of every variable against the values (sample index, value), by decreasing |ρ|;
+/// none when the values are constant to rounding ([`stats::varies_beyond_rounding`]).
 fn sensitivities(
     vars: &[Variable],
     samples: &[SampleResult],
     with_value: &[(usize, f64)],
 ) -> Vec<Sensitivity> {
     let values: Vec<f64> = with_value.iter().map(|(_, v)| *v).collect();
+    // A value constant to rounding ranks its samples by noise: no ranking.
+    if !stats::varies_beyond_rounding(&values) {
+        return Vec::new();
+    }
     let mut sensitivity: Vec<Sensitivity> = vars
         .iter()
         .enumerate()

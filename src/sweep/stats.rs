@@ -178,6 +178,22 @@ pub fn pearson(x: &[f64], y: &[f64]) -> Option<f64> {
     (sxx > 0.0 && syy > 0.0).then(|| sxy / (sxx * syy).sqrt())
 }
 
+/// Relative spread at or below which a sampled output counts as constant: the force tables are
+/// 1e-9 relative to the model and the integration's tolerance is 1e-10, so differences this
+/// small are rounding, and ranks taken from them noise.
+pub const CONSTANT_SPREAD_REL: f64 = 1e-9;
+
+/// Whether `values` spread by more than [`CONSTANT_SPREAD_REL`] of their largest magnitude (false
+/// for no values, or one).
+pub fn varies_beyond_rounding(values: &[f64]) -> bool {
+    let (lo, hi) = values
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), &v| {
+            (l.min(v), h.max(v))
+        });
+    hi - lo > CONSTANT_SPREAD_REL * lo.abs().max(hi.abs())
+}
+
 /// Spearman's rank correlation: Pearson's correlation of the (tie-averaged) ranks.
 pub fn spearman(x: &[f64], y: &[f64]) -> Option<f64> {
     pearson(&ranks(x), &ranks(y))
@@ -197,6 +213,28 @@ mod tests {
         assert!((s.p50 - 5.5).abs() < 1e-12);
         assert!((s.p95 - 9.55).abs() < 1e-12);
         assert_eq!((s.min, s.max), (1.0, 10.0));
+    }
+
+    #[test]
+    fn an_output_constant_to_rounding_does_not_vary() {
+        // The vertical felt peak of the sweep demo: 0.9999499987499375 g in every sample but
+        // one ulp above in some (rounding of the same number).
+        let one = 0.9999499987499375_f64;
+        let noisy: Vec<f64> = (0..100)
+            .map(|i| {
+                if i % 7 == 0 {
+                    f64::from_bits(one.to_bits() + 1)
+                } else {
+                    one
+                }
+            })
+            .collect();
+        assert!(!varies_beyond_rounding(&noisy));
+        assert!(!varies_beyond_rounding(&[0.0, 0.0]));
+        assert!(!varies_beyond_rounding(&[]));
+        assert!(!varies_beyond_rounding(&[one * (1.0 + 0.9e-9), one]));
+        assert!(varies_beyond_rounding(&[one * (1.0 + 1.1e-9), one]));
+        assert!(varies_beyond_rounding(&[-1.0, 1.0]));
     }
 
     #[test]
