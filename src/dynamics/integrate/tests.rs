@@ -145,11 +145,12 @@ fn right_hand_side_count_of_the_small_case_is_pinned() {
 /// Pieces end on the continuous output where a step's end comes within 1 % of the kink (steps
 /// are aimed at the kinks), not on a re-step to each located kink. Checked by self-convergence
 /// (the run against the same integration at rtol = atol = 1e-13, Hairer, Nørsett & Wanner 1993,
-/// §II.4 on tolerance proportionality): on the coaster demo (9 cases; 5 fins past 7 sections, 140 kinks) every
-/// case's exit speed, time in the zone and braking energy stay within 1e-10 of the tight solve
-/// and the peak deceleration within 1e-9 (measured with aimed steps: 2.3e-11, 2.7e-11,
-/// 1.9e-11, 3.2e-12; with a re-step at every kink: 2.1e-11, 2.6e-11, 2.9e-11, 6.3e-10), and the
-/// energy residual below 1e-10 of the braking energy (measured ≤ 1.7e-11; re-stepped ≤ 2.4e-11).
+/// §II.4 on tolerance proportionality): on the coaster demo (9 cases; 5 fins past 7 sections,
+/// 140 kinks) every case's exit speed, time in the zone and braking energy stay within 1e-10 of
+/// the tight solve and the peak deceleration within 1e-9 (measured with aimed steps: 2.3e-11,
+/// 2.7e-11, 1.9e-11, 3.2e-12; with a re-step at every kink: 2.1e-11, 2.6e-11, 2.9e-11,
+/// 6.3e-10), and the energy residual below 1e-10 of the braking energy (measured ≤ 1.7e-11;
+/// re-stepped ≤ 2.4e-11).
 #[test]
 fn runs_ending_pieces_near_step_ends_match_a_tight_solve() {
     let s = crate::scenario::load(std::path::Path::new(concat!(
