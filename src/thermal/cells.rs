@@ -65,21 +65,30 @@ struct NodeSet {
 
 /// What the nodes of a pair's full cells depend on: the field's first cell edge and cell
 /// length, the vehicle element's length and its offset's remainder against the cell grid (to
-/// 1e-12 m: offsets a whole number of cells apart differ there only by rounding).
-type NodeKey = [u64; 4];
+/// 1e-12 m: offsets a whole number of cells apart differ there only by rounding), and whether
+/// the offset was placed on the grid at all.
+type NodeKey = [u64; 5];
 
 /// The node key of a pair and its offset in whole cells (the slot of cell k is k + that).
 fn node_key(pair: &ActivePair, law: &TempField) -> (NodeKey, i64) {
     let ov = &pair.spec.overlap;
     let cells = (ov.vehicle_offset_m / law.cell_m).round();
-    let remainder = ov.vehicle_offset_m - cells * law.cell_m;
+    // An offset beyond 1e12 cells (or not finite) keys on its own bits: nothing shared, and the
+    // slot arithmetic stays far inside i64.
+    let (remainder_key, on_grid, shift) = if cells.abs() <= 1e12 {
+        let remainder = ov.vehicle_offset_m - cells * law.cell_m;
+        (((remainder / 1e-12).round() as i64) as u64, 1, cells as i64)
+    } else {
+        (ov.vehicle_offset_m.to_bits(), 0, 0)
+    };
     let key = [
         law.start_m.to_bits(),
         law.cell_m.to_bits(),
         ov.vehicle_len_m.to_bits(),
-        ((remainder / 1e-12).round() as i64) as u64,
+        remainder_key,
+        on_grid,
     ];
-    (key, cells as i64)
+    (key, shift)
 }
 
 impl<'a> PathNodes<'a> {
