@@ -85,6 +85,17 @@ pub(super) struct PieceEnd<const N: usize> {
     pub rhs_evaluations: u64,
 }
 
+impl<const N: usize> PieceEnd<N> {
+    /// The piece stops at `t_s` with state `y` and acceleration `a_m_s2`, by `event` (None: the
+    /// end time).
+    fn stop(&mut self, t_s: f64, event: Option<Event>, y: State<N>, a_m_s2: f64) {
+        self.t_stop = t_s;
+        self.event = event;
+        self.y_stop = y;
+        self.a_stop = a_m_s2;
+    }
+}
+
 /// A stepper failure as a typed cause.
 fn cause_of(failure: StepFailure, settings: &SolverSettings) -> IntegrationCause {
     match failure {
@@ -156,26 +167,22 @@ pub(super) fn step_piece<const N: usize>(
                     (t_stop, Some(event)) => {
                         let th = ((t_stop - d.t0) / d.h).clamp(0.0, 1.0);
                         on_step(&d, t_stop);
-                        end.t_stop = t_stop;
-                        end.event = Some(event);
-                        end.y_stop = if event == exit_event && th >= 1.0 - NEAR_END {
+                        let y = if event == exit_event && th >= 1.0 - NEAR_END {
                             landed_h = aimed.then_some(h_proposed);
                             state_at(&d, th, stepper.used())
                         } else {
                             stepper.restep_to(&mut rhs, t_stop)
                         };
-                        end.a_stop = d.rate_at_theta(1, th);
+                        end.stop(t_stop, Some(event), y, d.rate_at_theta(1, th));
                     }
                     (_, None) => {
                         // The crossing shows only in the step-end values (the continuous output
                         // there differs by rounding): the event is at the step end.
                         on_step(&d, stepper.t);
-                        end.t_stop = stepper.t;
-                        end.event = (0..EVENTS.len())
+                        let event = (0..EVENTS.len())
                             .find(|&i| g_prev[i] > 0.0 && g[i] <= 0.0)
                             .map(|i| EVENTS[i]);
-                        end.y_stop = stepper.y;
-                        end.a_stop = stepper.f[1];
+                        end.stop(stepper.t, event, stepper.y, stepper.f[1]);
                     }
                 }
                 break;
@@ -185,10 +192,8 @@ pub(super) fn step_piece<const N: usize>(
                 if let Some(th) = land_at_exit(&d, exit_x, watch, &g, stepper.used()) {
                     let t_stop = d.t0 + th * d.h;
                     on_step(&d, t_stop);
-                    end.t_stop = t_stop;
-                    end.event = Some(exit_event);
-                    end.y_stop = state_at(&d, th, stepper.used());
-                    end.a_stop = d.rate_at_theta(1, th);
+                    let y = state_at(&d, th, stepper.used());
+                    end.stop(t_stop, Some(exit_event), y, d.rate_at_theta(1, th));
                     landed_h = Some(h_proposed);
                     break;
                 }
@@ -196,9 +201,7 @@ pub(super) fn step_piece<const N: usize>(
             on_step(&stepper.dense, stepper.t);
             g_prev = g;
             if last && !aimed {
-                end.t_stop = stepper.t;
-                end.y_stop = stepper.y;
-                end.a_stop = stepper.f[1];
+                end.stop(stepper.t, None, stepper.y, stepper.f[1]);
                 break;
             }
         }
@@ -231,10 +234,6 @@ fn landing_time<const N: usize>(stepper: &Stepper<N>, exit_x: f64, t_end: f64) -
         return None;
     }
     let h = stepper.h.min(t_end - stepper.t);
-    // Far ahead even at the most the speed can grow by over the step: not this step.
-    if dist.abs() > 1.01 * h * (v.abs() + 0.5 * a.abs() * 1.01 * h) {
-        return None;
-    }
     let disc = v * v + 2.0 * a * dist;
     if disc <= 0.0 {
         return None;

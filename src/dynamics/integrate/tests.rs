@@ -6,6 +6,12 @@ use crate::dynamics::Quantity;
 use crate::physics::PhysicsError;
 use crate::scenario::{parse_str, Arrangement, ForceSource, MeasuredForce};
 
+/// A scenario shipped with the project, by its path from the repository root.
+fn shipped(path: &str) -> Scenario {
+    let path = format!("{}/{path}", env!("CARGO_MANIFEST_DIR"));
+    crate::scenario::load(std::path::Path::new(&path)).expect("shipped scenario loads")
+}
+
 /// A small brake run: one fin repeated `fins` times on the vehicle, three sections.
 fn scenario(fins: usize) -> Scenario {
     let text = format!(
@@ -126,11 +132,7 @@ fn solver_settings_default_to_the_block() {
 #[test]
 fn right_hand_side_count_of_the_small_case_is_pinned() {
     const RHS: usize = 292;
-    let s = crate::scenario::load(std::path::Path::new(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/benches/data/small-coaster.yaml"
-    )))
-    .expect("benchmark case loads");
+    let s = shipped("benches/data/small-coaster.yaml");
     let tables = BrakeTables::build(&s).expect("tables");
     let r = simulate_case(&s, &tables, &s.cases[0], &RunOptions::default()).expect("runs");
     let rhs = r.rhs_evaluations as usize;
@@ -153,11 +155,7 @@ fn right_hand_side_count_of_the_small_case_is_pinned() {
 /// re-stepped ≤ 2.4e-11).
 #[test]
 fn runs_ending_pieces_near_step_ends_match_a_tight_solve() {
-    let s = crate::scenario::load(std::path::Path::new(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/scenarios/coaster-brake-run.yaml"
-    )))
-    .expect("demo loads");
+    let s = shipped("scenarios/coaster-brake-run.yaml");
     let tables = BrakeTables::build(&s).expect("tables");
     let tight = RunOptions {
         solver: Some(SolverSettings {
@@ -244,8 +242,7 @@ time_limit: 400 s
 #[test]
 fn reachable_speed_bounds_every_demo_run() {
     for name in ["coaster-brake-run", "tower-catch-brake", "coaster-plan"] {
-        let path = format!("{}/scenarios/{name}.yaml", env!("CARGO_MANIFEST_DIR"));
-        let s = crate::scenario::load(std::path::Path::new(&path)).expect("demo loads");
+        let s = shipped(&format!("scenarios/{name}.yaml"));
         let bound = crate::dynamics::model::reachable_speed_m_s(&s);
         let tables = BrakeTables::build(&s).expect("tables");
         let options = RunOptions {
