@@ -8,6 +8,7 @@
 //! through a [`Progress`] that the command line turns into a progress bar; the library never
 //! draws one itself.
 
+pub mod mirror;
 pub mod progress;
 pub mod warnings;
 
@@ -19,8 +20,9 @@ use crate::checks::{verdict, CaseTemperatures, Verdict};
 use crate::curve::{curves, CurveOptions, PairCurve};
 use crate::dynamics::{simulate_case, BrakeTables, DynamicsError, RunOptions, RunResult, Sampling};
 use crate::numeric::{map_each_in_parallel, map_in_parallel};
-use crate::scenario::Scenario;
+use crate::scenario::{Case, Scenario};
 use crate::thermal::{heat_case, start_from_states, CaseHeat, HeatOptions, ThermalError};
+use mirror::{relabel_heat, relabel_run, Mirrors, Relabel};
 
 /// Errors of a study: a computation of the dynamics or thermal layer that could not complete.
 #[derive(Debug, thiserror::Error)]
@@ -187,6 +189,8 @@ pub struct Judgement {
 pub struct Study {
     scenario: Scenario,
     tables: BrakeTables,
+    /// Cases whose results are an earlier case's relabelled ([`mirror`]).
+    mirrors: Mirrors,
 }
 
 impl Study {
@@ -199,7 +203,7 @@ impl Study {
     /// adding the ones it builds.
     pub fn with_cache(scenario: Scenario, cache: &TableCache) -> Result<Self, StudyError> {
         let tables = BrakeTables::build_cached(&scenario, cache)?;
-        Ok(Self { scenario, tables })
+        Ok(Self::from_parts(scenario, tables))
     }
 
     /// Like [`Study::with_cache`], with every force table reaching at least
@@ -210,7 +214,69 @@ impl Study {
         min_table_speed_m_s: f64,
     ) -> Result<Self, StudyError> {
         let tables = BrakeTables::build_reaching(&scenario, cache, min_table_speed_m_s)?;
-        Ok(Self { scenario, tables })
+        Ok(Self::from_parts(scenario, tables))
+    }
+
+    fn from_parts(scenario: Scenario, tables: BrakeTables) -> Self {
+        let mirrors = Mirrors::of(&scenario);
+        Self {
+            scenario,
+            tables,
+            mirrors,
+        }
+    }
+
+    /// `compute` of every case, in case order, on the rayon pool. With `mirrored`, a case that
+    /// is the relabelling of an earlier one ([`mirror`]) takes that case's result through
+    /// `carry` instead, and is computed only when `carry` declines it.
+    fn each_case<T, E>(
+        &self,
+        mirrored: bool,
+        compute: impl Fn(usize) -> Result<T, E> + Sync + Send,
+        carry: impl Fn(&T, &Relabel, &Case) -> Option<T>,
+    ) -> Result<Vec<T>, E>
+    where
+        T: Send,
+        E: Send,
+    {
+        let cases = &self.scenario.cases;
+        let all: Vec<usize> = (0..cases.len()).collect();
+        if !mirrored || self.mirrors.carried() == 0 {
+            return map_in_parallel(&all, |&i| compute(i));
+        }
+        let first: Vec<usize> = all
+            .iter()
+            .copied()
+            .filter(|&i| self.mirrors.source_of(i).is_none())
+            .collect();
+        let mut out: Vec<Option<T>> = all.iter().map(|_| None).collect();
+        for (i, r) in first.iter().zip(map_in_parallel(&first, |&i| compute(i))?) {
+            out[*i] = Some(r);
+        }
+        let mut declined = Vec::new();
+        for (i, case) in cases.iter().enumerate() {
+            if out[i].is_some() {
+                continue;
+            }
+            let carried = self.mirrors.source_of(i).and_then(|(from, relabel)| {
+                out[from].as_ref().and_then(|t| carry(t, relabel, case))
+            });
+            match carried {
+                Some(t) => out[i] = Some(t),
+                None => declined.push(i),
+            }
+        }
+        for (i, r) in declined
+            .iter()
+            .zip(map_in_parallel(&declined, |&i| compute(i))?)
+        {
+            out[*i] = Some(r);
+        }
+        match out.into_iter().collect::<Option<Vec<T>>>() {
+            Some(v) => Ok(v),
+            // Every slot is filled above; should one not be, compute them all.
+            None => map_in_parallel(&all, |&i| compute(i)),
+        }
     }
 
     /// The scenario.
@@ -237,9 +303,11 @@ impl Study {
     pub fn run(&self, options: &RunOptions) -> Result<Vec<RunResult>, StudyError> {
         self.sample_budget(options)?;
         let s = &self.scenario;
-        let mut runs = all_finite_runs(map_in_parallel(&s.cases, |c| {
-            simulate_case(s, &self.tables, c, options)
-        })?)?;
+        let mut runs = all_finite_runs(self.each_case(
+            Mirrors::apply_to(options),
+            |i| simulate_case(s, &self.tables, &s.cases[i], options),
+            |r, relabel, c| relabel_run(s, r, relabel, c),
+        )?)?;
         // A sweep drawing fin offsets reports the nominal lateral force too (0 when centred).
         let offset_drawn = s
             .sweep
@@ -316,11 +384,21 @@ impl Study {
         })?;
         let s = &self.scenario;
         progress.stage("heating the fins", Some(s.cases.len() as u64));
-        let out = map_in_parallel(&s.cases, |c| {
-            let h = heat_case(s, &self.tables, c, options);
-            progress.advance(1);
-            h
-        })?;
+        let out = self.each_case(
+            true,
+            |i| {
+                let h = heat_case(s, &self.tables, &s.cases[i], options);
+                progress.advance(1);
+                h
+            },
+            |h, relabel, c| {
+                let carried = relabel_heat(s, h, relabel, c);
+                if carried.is_some() {
+                    progress.advance(1);
+                }
+                carried
+            },
+        )?;
         if let Some((case, quantity)) = out
             .iter()
             .find_map(|h| non_finite_heat(h).map(|q| (h.case.clone(), q)))
@@ -358,11 +436,17 @@ impl Study {
         let judged = s.limits.max_fin_temperature_c.is_some();
         let (verdict, steady_runs) = if s.duty.is_some() {
             progress.stage("running cases at the steady state", None);
-            let with_heat: Vec<_> = s.cases.iter().zip(&heat).collect();
-            let steady_runs: Vec<RunResult> = map_in_parallel(&with_heat, |(c, h)| {
-                let o = start_from_states(&h.steady_start, c, options.run.clone());
-                simulate_case(s, &self.tables, c, &o)
-            })?;
+            // The steady states of a mirrored case are its source's relabelled, so its steady
+            // run is the source's relabelled too.
+            let steady_runs: Vec<RunResult> = self.each_case(
+                Mirrors::apply_to(&options.run),
+                |i| {
+                    let (c, h) = (&s.cases[i], &heat[i]);
+                    let o = start_from_states(&h.steady_start, c, options.run.clone());
+                    simulate_case(s, &self.tables, c, &o)
+                },
+                |r, relabel, c| relabel_run(s, r, relabel, c),
+            )?;
             let steady_runs = all_finite_runs(steady_runs)?;
             // Each case judged on its own, the cases side by side.
             let states: Vec<_> = s
@@ -492,4 +576,169 @@ pub fn judged_temperatures(scenario: &Scenario, heat: &[CaseHeat]) -> Vec<CaseTe
             magnet_temp_c: None,
         })
         .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use serde_json::Value;
+
+    /// The largest difference between two JSON trees of the same shape, relative to each
+    /// number's size (absolute below `floor`), with the first place where they differ in shape
+    /// or text.
+    fn largest_difference(
+        a: &Value,
+        b: &Value,
+        floor: f64,
+        at: &str,
+    ) -> Result<(f64, String), String> {
+        match (a, b) {
+            (Value::Number(x), Value::Number(y)) => {
+                let (x, y) = (
+                    x.as_f64().unwrap_or(f64::NAN),
+                    y.as_f64().unwrap_or(f64::NAN),
+                );
+                Ok((
+                    (x - y).abs() / x.abs().max(y.abs()).max(floor),
+                    at.to_string(),
+                ))
+            }
+            (Value::Array(x), Value::Array(y)) if x.len() == y.len() => x
+                .iter()
+                .zip(y)
+                .enumerate()
+                .map(|(k, (x, y))| largest_difference(x, y, floor, &format!("{at}[{k}]")))
+                .try_fold((0.0, String::new()), |m, d| {
+                    d.map(|d| if d.0 > m.0 { d } else { m })
+                }),
+            // The integrator's work counts are not results: rounding moves them.
+            (Value::Object(x), Value::Object(y)) if x.len() == y.len() => x
+                .iter()
+                .filter(|(k, _)| !matches!(k.as_str(), "steps" | "rhs_evaluations"))
+                .map(|(k, v)| match y.get(k) {
+                    // The energy residual is a rounding-sized difference of MJ energies: judged
+                    // against 1 kJ (1e-5 of it is ~3e-9 of the tower's braking energy).
+                    Some(w) => {
+                        let floor = if k == "energy_residual_j" { 1e3 } else { floor };
+                        largest_difference(v, w, floor, &format!("{at}.{k}"))
+                    }
+                    None => Err(format!("{at}.{k} missing")),
+                })
+                .try_fold((0.0, String::new()), |m, d| {
+                    d.map(|d| if d.0 > m.0 { d } else { m })
+                }),
+            _ if a == b => Ok((0.0, String::new())),
+            _ => Err(format!("{at}: {a} against {b}")),
+        }
+    }
+
+    /// The tower demo's one-unit-out cases come in east/west pairs: the judgement with the west
+    /// cases carried over from the east ones agrees with computing every case directly — per
+    /// fin and per section in the right places (a missing or wrong relabelling swaps a full face
+    /// with a face one unit short: whole percent), in the verdict rows, the heat and the steady
+    /// runs — to rounding as the coupled passes amplify it (seen: 8e-7 of a margin, 3e-8 of a
+    /// value; both versions are as close to an rtol 1e-13 solve, DEVELOPERS "Open work").
+    #[test]
+    fn mirrored_cases_match_their_direct_computation() {
+        let path = concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/scenarios/tower-catch-brake.yaml"
+        );
+        let scenario = crate::scenario::load(std::path::Path::new(path)).expect("the demo loads");
+        let carried = Study::new(scenario).expect("tables");
+        assert_eq!(carried.mirrors.carried(), 12);
+        let direct = Study {
+            mirrors: Mirrors::default(),
+            ..carried.clone()
+        };
+        let options = JudgeOptions::default();
+        let a = carried.judge(&options, &Silent).expect("judged");
+        let b = direct.judge(&options, &Silent).expect("judged");
+        let json = |v: &dyn erased::Json| v.json();
+        for (what, x, y) in [
+            ("verdict", json(&a.verdict), json(&b.verdict)),
+            ("heat", json(&a.heat), json(&b.heat)),
+            ("runs", json(&a.runs), json(&b.runs)),
+            ("steady runs", json(&a.steady_runs), json(&b.steady_runs)),
+        ] {
+            let (d, at) = largest_difference(&x, &y, 1e-3, what).expect("the same shape and names");
+            assert!(d < 1e-5, "{what}: {d:.1e} at {at}");
+        }
+        // What the runs do not serialise: the heat of each fin, and the samples (forces against
+        // the run's peak: a sample at a unit's edge holds a force of rounding size).
+        let fins = |runs: &[RunResult]| -> Value {
+            let rows: Vec<Vec<_>> = runs
+                .iter()
+                .map(|r| {
+                    r.fins
+                        .iter()
+                        .map(|f| (f.fin.clone(), f.energy_j, f.end_temp_c))
+                        .collect()
+                })
+                .collect();
+            json(&rows)
+        };
+        for (what, x, y) in [
+            ("runs", &a.runs, &b.runs),
+            ("steady runs", &a.steady_runs, &b.steady_runs),
+        ] {
+            let (d, at) =
+                largest_difference(&fins(x), &fins(y), 1e-3, what).expect("the same names");
+            assert!(d < 1e-5, "{what}' fins: {d:.1e} at {at}");
+            for (r, q) in x.iter().zip(y) {
+                assert_eq!(r.samples.len(), q.samples.len(), "{}", r.case);
+                let scale = r.peak_brake_force_n.max(1.0);
+                for (p, o) in r.samples.iter().zip(&q.samples) {
+                    assert!(
+                        (p.t_s - o.t_s).abs() < 1e-7 * (1.0 + p.t_s),
+                        "{}: {} against {} s",
+                        r.case,
+                        p.t_s,
+                        o.t_s
+                    );
+                    assert!(
+                        (p.v_m_s - o.v_m_s).abs() < 1e-6 * p.v_m_s.abs().max(1.0),
+                        "{}",
+                        r.case
+                    );
+                    let df = (p.brake_force_n - o.brake_force_n).abs() / scale;
+                    assert!(
+                        df < 1e-6,
+                        "{}: force {df:.1e} of the peak at {} s",
+                        r.case,
+                        p.t_s
+                    );
+                }
+            }
+        }
+        // Per-section loads, asked for as `run --sections` does.
+        let loads = RunOptions {
+            section_loads: true,
+            ..RunOptions::default()
+        };
+        let (x, y) = (
+            json(&carried.run(&loads).expect("runs")),
+            json(&direct.run(&loads).expect("runs")),
+        );
+        let (d, at) = largest_difference(&x, &y, 1e-3, "loads").expect("the same shape and names");
+        assert!(d < 1e-5, "section loads: {d:.1e} at {at}");
+        // The steady states themselves (not serialised) in the same places.
+        for (x, y) in a.heat.iter().zip(&b.heat) {
+            for (p, q) in x.steady_start.iter().zip(&y.steady_start) {
+                assert!((p.peak_c() - q.peak_c()).abs() < 1e-6, "{}", x.case);
+            }
+        }
+    }
+
+    mod erased {
+        /// A value as a JSON tree.
+        pub trait Json {
+            fn json(&self) -> serde_json::Value;
+        }
+        impl<T: serde::Serialize> Json for T {
+            fn json(&self) -> serde_json::Value {
+                serde_json::to_value(self).unwrap_or(serde_json::Value::Null)
+            }
+        }
+    }
 }
