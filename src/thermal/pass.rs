@@ -297,6 +297,9 @@ pub fn run_pass_with(
     // The quadrature nodes' speeds, shared by the pairs of every track fin of the pass (made
     // for the first track fin).
     let mut nodes: Option<PathNodes<'_>> = None;
+    // The unit deposits of the vehicle fins that start uniform, shared by the fins of one
+    // height, material and loss distribution (the pass's braking power sets their timing).
+    let mut units: Vec<UnitDeposit> = Vec::new();
     for (i, state) in states.iter().enumerate() {
         let energy_j = run.fins.get(i).map_or(0.0, |h| h.energy_j);
         // A mirror fin in the same state, with the same capacity and the same energy, heats
@@ -313,7 +316,7 @@ pub fn run_pass_with(
             }
         }
         fins.push(match state {
-            FinState::Height(p0) => height_pass(&run, p0, energy_j, &caps[i]),
+            FinState::Height(p0) => height_pass_shared(&run, p0, energy_j, &caps[i], &mut units),
             FinState::Field(field) => {
                 let mine: Vec<&ActivePair> = pairs.iter().filter(|p| p.spec.fin == i).collect();
                 let track = TrackFin {
@@ -351,6 +354,118 @@ fn pass_options(case: &Case, states: &[FinState], coupling: bool, sample_dt_s: f
     }
 }
 
+/// The deposit of a unit mean rise (1 K) into a fin at 0 °C throughout, over the pieces of one
+/// pass: its hottest cell over the pass and its cells at the end, K. The conduction across the
+/// height is linear and keeps a uniform profile uniform (no face cooling during a pass), so a fin
+/// starting uniform at T₀ with a mean rise c ≥ 0 has T₀ + c·u at every cell and every time, and
+/// its hottest cell is T₀ + c·max u: the fins of a vehicle that share a height, a material and a
+/// loss distribution take one deposit per pass instead of one each.
+#[derive(Debug, Clone)]
+struct UnitDeposit {
+    height_m: f64,
+    diffusivity_m2_s: f64,
+    weights: Vec<f64>,
+    /// None: the pass has no braking power to time the deposit by.
+    response: Option<(f64, Vec<f64>)>,
+}
+
+impl UnitDeposit {
+    fn new(run: &RunResult, start: &HeightProfile, weights: Vec<f64>) -> Self {
+        let zero = HeightProfile::uniform(
+            start.height_m,
+            start.diffusivity_m2_s,
+            start.temps_c.len(),
+            0.0,
+        );
+        let response = (!weights.is_empty())
+            .then(|| deposit_shares(run))
+            .flatten()
+            .map(|shares| {
+                let modes = Modes::of(zero.temps_c.len());
+                let n = zero.temps_c.len() as f64;
+                let rise: Vec<f64> = weights.iter().map(|w| w * n).collect();
+                let mut p = zero.clone();
+                let peak = modes.deposit_pieces(&mut p, &rise, &shares).max(0.0);
+                (peak, p.temps_c)
+            });
+        Self {
+            height_m: start.height_m,
+            diffusivity_m2_s: start.diffusivity_m2_s,
+            weights,
+            response,
+        }
+    }
+
+    fn fits(&self, start: &HeightProfile, weights: &[f64]) -> bool {
+        self.height_m == start.height_m
+            && self.diffusivity_m2_s == start.diffusivity_m2_s
+            && self.weights == weights
+    }
+}
+
+/// The uniform temperature of a profile, None when its cells differ.
+fn uniform_temp_c(p: &HeightProfile) -> Option<f64> {
+    let t0 = *p.temps_c.first()?;
+    p.temps_c.iter().all(|t| *t == t0).then_some(t0)
+}
+
+/// [`height_pass`], by a unit deposit of `units` (made there when missing) for a fin starting
+/// uniform with a mean rise that is finite and not negative: the same temperatures to rounding.
+fn height_pass_shared(
+    run: &RunResult,
+    start: &HeightProfile,
+    energy_j: f64,
+    cap: &FinCapacity,
+    units: &mut Vec<UnitDeposit>,
+) -> FinPass {
+    let mean_rise_k = energy_j / cap.whole_j_k;
+    let t0 = match uniform_temp_c(start) {
+        Some(t0) if t0.is_finite() && mean_rise_k.is_finite() && mean_rise_k >= 0.0 => t0,
+        _ => return height_pass(run, start, energy_j, cap),
+    };
+    let weights = deposit_weights(start, cap);
+    let at = match units.iter().position(|u| u.fits(start, &weights)) {
+        Some(at) => at,
+        None => {
+            units.push(UnitDeposit::new(run, start, weights));
+            units.len() - 1
+        }
+    };
+    let Some((unit_peak, unit_end)) = &units[at].response else {
+        return height_pass(run, start, energy_j, cap);
+    };
+    let mut end = start.clone();
+    for (t, u) in end.temps_c.iter_mut().zip(unit_end) {
+        *t = t0 + mean_rise_k * u;
+    }
+    let peak = t0 + mean_rise_k * unit_peak;
+    FinPass {
+        energy_j,
+        rise_k: vec![peak - t0],
+        peak_c: peak,
+        end: FinState::Height(end),
+        quadrature_correction: 0.0,
+    }
+}
+
+/// The pieces (Δt, share of the pass's heat) of a vehicle-fin deposit: the braking power |F·v|
+/// at the samples, a trapezoid per interval, normalised to sum to 1; None when the pass has no
+/// finite positive braking energy at its samples.
+fn deposit_shares(run: &RunResult) -> Option<Vec<(f64, f64)>> {
+    let powers: Vec<(f64, f64)> = run
+        .samples
+        .iter()
+        .map(|s| (s.t_s, (s.brake_force_n * s.v_m_s).abs()))
+        .collect();
+    let pieces: Vec<(f64, f64)> = powers
+        .windows(2)
+        .map(|w| (w[1].0 - w[0].0, 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)))
+        .collect();
+    let total: f64 = pieces.iter().map(|x| x.1).sum();
+    (total > 0.0 && total.is_finite())
+        .then(|| pieces.iter().map(|&(dt, e)| (dt, e / total)).collect())
+}
+
 /// A vehicle fin: the fin energy deposited across the height by the loss distribution of `cap`
 /// (the thin-sheet solution, centred on the band the magnets cover), in time as the vehicle's braking power |F·v| at the samples (trapezoid per
 /// interval, scaled to the fin's integrated energy), with conduction across the height during
@@ -367,20 +482,9 @@ pub fn height_pass(
     // E/(m·c_p) spread with weight w_j over 1/N of the mass raises cell j by N·w_j·E/(m·c_p).
     let n = p.temps_c.len() as f64;
     let mut peak = p.peak_c();
-    let powers: Vec<(f64, f64)> = run
-        .samples
-        .iter()
-        .map(|s| (s.t_s, (s.brake_force_n * s.v_m_s).abs()))
-        .collect();
-    let pieces: Vec<(f64, f64)> = powers
-        .windows(2)
-        .map(|w| (w[1].0 - w[0].0, 0.5 * (w[0].1 + w[1].1) * (w[1].0 - w[0].0)))
-        .collect();
-    let total: f64 = pieces.iter().map(|x| x.1).sum();
     let mean_rise_k = energy_j / cap.whole_j_k;
-    if total > 0.0 && total.is_finite() {
+    if let Some(shares) = deposit_shares(run) {
         let rise: Vec<f64> = weights.iter().map(|w| w * n * mean_rise_k).collect();
-        let shares: Vec<(f64, f64)> = pieces.iter().map(|&(dt, e)| (dt, e / total)).collect();
         peak = peak.max(modes.deposit_pieces(&mut p, &rise, &shares));
     } else if energy_j > 0.0 {
         for (t, w) in p.temps_c.iter_mut().zip(&weights) {
@@ -458,5 +562,88 @@ fn field_pass(
         end: FinState::Field(end),
         rise_k,
         quadrature_correction: correction,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn coaster() -> Scenario {
+        crate::scenario::load(std::path::Path::new(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/scenarios/coaster-plan.yaml"
+        )))
+        .expect("demo loads")
+    }
+
+    /// The shared unit deposit against each fin's own deposit ([`height_pass`]): on the five
+    /// car fins of the coaster plan demo (one height, material and loss distribution, five
+    /// energies), every cell at the end and the hottest cell over the pass agree to 1e-12 K
+    /// (rounding of the scaled sums; the rises are tens of kelvin), with one unit deposit made.
+    #[test]
+    fn shared_unit_deposit_is_each_fins_own_deposit() {
+        let s = coaster();
+        let tables = BrakeTables::build(&s).expect("tables");
+        let caps = fin_capacities(&s, &tables).expect("capacities");
+        let case = &s.cases[0];
+        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
+        let heat = run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps).expect("pass");
+        let mut units = Vec::new();
+        let mut energies = Vec::new();
+        for ((fin, state), cap) in heat.fins.iter().zip(&states).zip(&caps) {
+            let FinState::Height(p0) = state else {
+                panic!("vehicle fins")
+            };
+            let own = height_pass(&heat.run, p0, fin.energy_j, cap);
+            let shared = height_pass_shared(&heat.run, p0, fin.energy_j, cap, &mut units);
+            assert!(
+                own.peak_c > p0.peak_c() + 1.0,
+                "the fin heats: {}",
+                own.peak_c
+            );
+            assert!(
+                (own.peak_c - shared.peak_c).abs() < 1e-12,
+                "{own:?} vs {shared:?}"
+            );
+            assert!((own.rise_k[0] - shared.rise_k[0]).abs() < 1e-12);
+            let (FinState::Height(a), FinState::Height(b)) = (&own.end, &shared.end) else {
+                panic!("height profiles")
+            };
+            for (x, y) in a.temps_c.iter().zip(&b.temps_c) {
+                assert!((x - y).abs() < 1e-12, "{x} vs {y}");
+            }
+            // The pass itself took the shared path: the same values.
+            assert!((fin.peak_c - shared.peak_c).abs() < 1e-12);
+            energies.push(fin.energy_j);
+        }
+        assert_eq!(units.len(), 1, "one unit deposit for the five alike fins");
+        assert!(
+            energies.windows(2).any(|w| w[0] != w[1]),
+            "the fins take different energies: {energies:?}"
+        );
+    }
+
+    /// A fin that does not start uniform (a later pass of a duty cycle) keeps its own deposit,
+    /// to the last bit, and makes no unit deposit.
+    #[test]
+    fn uneven_start_keeps_its_own_deposit() {
+        let s = coaster();
+        let tables = BrakeTables::build(&s).expect("tables");
+        let caps = fin_capacities(&s, &tables).expect("capacities");
+        let case = &s.cases[0];
+        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
+        let heat = run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps).expect("pass");
+        let FinState::Height(mut p0) = states[0].clone() else {
+            panic!("vehicle fin")
+        };
+        p0.temps_c[10] += 5.0;
+        let mut units = Vec::new();
+        let own = height_pass(&heat.run, &p0, heat.fins[0].energy_j, &caps[0]);
+        let shared =
+            height_pass_shared(&heat.run, &p0, heat.fins[0].energy_j, &caps[0], &mut units);
+        assert_eq!(own, shared);
+        assert!(units.is_empty());
+        assert_eq!(uniform_temp_c(&p0), None);
     }
 }
