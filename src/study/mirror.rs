@@ -45,12 +45,16 @@ impl Mirrors {
     /// The mirror cases of `scenario`: every lane swap that maps it onto itself, and for each
     /// case the first earlier computed case that it is the image of under one of them.
     pub fn of(scenario: &Scenario) -> Self {
-        let relabels = lane_swaps(scenario);
         let n = scenario.cases.len();
         let mut source = vec![None; n];
-        if relabels.is_empty() || n < 2 {
-            return Self { source, relabels };
+        if n < 2 {
+            // A sweep's or a planner's one-case study: nothing to carry over.
+            return Self {
+                source,
+                relabels: Vec::new(),
+            };
         }
+        let relabels = lane_swaps(scenario);
         let identity = Relabel {
             fins: (0..scenario.fins.len()).collect(),
             sections: (0..scenario.sections.len()).collect(),
@@ -98,8 +102,8 @@ impl Mirrors {
     }
 }
 
-/// Every swap of two lanes that maps the scenario's fins and sections onto themselves,
-/// besides the identity (which relabels duplicate cases).
+/// The identity (it carries a case over to a later duplicate of it) and every swap of two
+/// lanes that maps the scenario's fins and sections onto themselves.
 fn lane_swaps(s: &Scenario) -> Vec<Relabel> {
     let mut lanes: Vec<&str> = Vec::new();
     for l in s
