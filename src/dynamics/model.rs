@@ -782,11 +782,7 @@ mod tests {
     /// runs of equal and of different conductivities, at several speeds of either sign.
     #[test]
     fn reused_lookups_match_the_plain_sum() {
-        let s = crate::scenario::load(std::path::Path::new(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/scenarios/tower-catch-brake.yaml"
-        )))
-        .expect("demo loads");
+        let s = crate::scenario::shipped("scenarios/tower-catch-brake.yaml");
         let tables = BrakeTables::build(&s).expect("tables");
         let pairs = active_pairs(&s, &tables, &s.cases[2]);
         let pair = &pairs[0];

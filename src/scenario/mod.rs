@@ -19,6 +19,13 @@ use std::path::{Path, PathBuf};
 
 pub use validate::{load, parse_str};
 
+/// A scenario shipped with the project, by its path from the repository root (for tests).
+#[cfg(test)]
+pub(crate) fn shipped(path: &str) -> Scenario {
+    let path = format!("{}/{path}", env!("CARGO_MANIFEST_DIR"));
+    load(Path::new(&path)).expect("shipped scenario loads")
+}
+
 /// Which side carries the fins.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]

@@ -233,24 +233,34 @@ fn permuted<T: Clone>(v: &[T], image: &[usize]) -> Option<Vec<T>> {
     out.into_iter().collect()
 }
 
+/// [`permuted`], each entry then named after its place (`names` in scenario order).
+fn renamed<'a, T: Clone>(
+    v: &[T],
+    image: &[usize],
+    names: impl Iterator<Item = &'a String>,
+    name: impl Fn(&mut T) -> &mut String,
+) -> Option<Vec<T>> {
+    let mut out = permuted(v, image)?;
+    for (x, n) in out.iter_mut().zip(names) {
+        name(x).clone_from(n);
+    }
+    Some(out)
+}
+
 /// The run of `case` from the run of its source: fins and sections permuted and renamed.
 /// None when the run carries warnings or does not list every fin and section.
 pub fn relabel_run(s: &Scenario, run: &RunResult, r: &Relabel, case: &Case) -> Option<RunResult> {
     if !run.warnings.is_empty() {
         return None;
     }
-    let mut fins = permuted(&run.fins, &r.fins)?;
-    for (f, fin) in fins.iter_mut().zip(&s.fins) {
-        f.fin.clone_from(&fin.name);
-    }
+    let fins = renamed(&run.fins, &r.fins, s.fins.iter().map(|f| &f.name), |f| {
+        &mut f.fin
+    })?;
     let sections = if run.sections.is_empty() {
         Vec::new()
     } else {
-        let mut out = permuted(&run.sections, &r.sections)?;
-        for (l, sec) in out.iter_mut().zip(&s.sections) {
-            l.section.clone_from(&sec.name);
-        }
-        out
+        let names = s.sections.iter().map(|x| &x.name);
+        renamed(&run.sections, &r.sections, names, |l| &mut l.section)?
     };
     Some(RunResult {
         case: case.name.clone(),
@@ -270,10 +280,9 @@ pub fn relabel_heat(s: &Scenario, heat: &CaseHeat, r: &Relabel, case: &Case) -> 
         Some(run) => Some(relabel_run(s, run, r, case)?),
         None => None,
     };
-    let mut fins = permuted(&heat.fins, &r.fins)?;
-    for (f, fin) in fins.iter_mut().zip(&s.fins) {
-        f.fin.clone_from(&fin.name);
-    }
+    let fins = renamed(&heat.fins, &r.fins, s.fins.iter().map(|f| &f.name), |f| {
+        &mut f.fin
+    })?;
     let mut cycles = heat.cycles.clone();
     for row in &mut cycles {
         row.fin_peaks_c = permuted(&row.fin_peaks_c, &r.fins)?;
@@ -310,11 +319,7 @@ mod tests {
     use super::*;
 
     fn tower() -> Scenario {
-        crate::scenario::load(std::path::Path::new(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/scenarios/tower-catch-brake.yaml"
-        )))
-        .expect("the tower demo loads")
+        crate::scenario::shipped("scenarios/tower-catch-brake.yaml")
     }
 
     #[test]

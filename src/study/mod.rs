@@ -583,6 +583,11 @@ mod tests {
     use super::*;
     use serde_json::Value;
 
+    /// A value as a JSON tree.
+    fn json<T: serde::Serialize + ?Sized>(v: &T) -> Value {
+        serde_json::to_value(v).unwrap_or(Value::Null)
+    }
+
     /// The largest difference between two JSON trees of the same shape, relative to each
     /// number's size (absolute below `floor`), with the first place where they differ in shape
     /// or text.
@@ -640,11 +645,7 @@ mod tests {
     /// value; both versions are as close to an rtol 1e-13 solve, DEVELOPERS "Open work").
     #[test]
     fn mirrored_cases_match_their_direct_computation() {
-        let path = concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/scenarios/tower-catch-brake.yaml"
-        );
-        let scenario = crate::scenario::load(std::path::Path::new(path)).expect("the demo loads");
+        let scenario = crate::scenario::shipped("scenarios/tower-catch-brake.yaml");
         let carried = Study::new(scenario).expect("tables");
         assert_eq!(carried.mirrors.carried(), 12);
         let direct = Study {
@@ -654,7 +655,6 @@ mod tests {
         let options = JudgeOptions::default();
         let a = carried.judge(&options, &Silent).expect("judged");
         let b = direct.judge(&options, &Silent).expect("judged");
-        let json = |v: &dyn erased::Json| v.json();
         for (what, x, y) in [
             ("verdict", json(&a.verdict), json(&b.verdict)),
             ("heat", json(&a.heat), json(&b.heat)),
@@ -726,18 +726,6 @@ mod tests {
         for (x, y) in a.heat.iter().zip(&b.heat) {
             for (p, q) in x.steady_start.iter().zip(&y.steady_start) {
                 assert!((p.peak_c() - q.peak_c()).abs() < 1e-6, "{}", x.case);
-            }
-        }
-    }
-
-    mod erased {
-        /// A value as a JSON tree.
-        pub trait Json {
-            fn json(&self) -> serde_json::Value;
-        }
-        impl<T: serde::Serialize> Json for T {
-            fn json(&self) -> serde_json::Value {
-                serde_json::to_value(self).unwrap_or(serde_json::Value::Null)
             }
         }
     }

@@ -263,11 +263,7 @@ mod tests {
     }
 
     fn tower() -> crate::scenario::Scenario {
-        crate::scenario::load(std::path::Path::new(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/scenarios/tower-catch-brake.yaml"
-        )))
-        .expect("demo loads")
+        crate::scenario::shipped("scenarios/tower-catch-brake.yaml")
     }
 
     /// The reference itself: splitting the overlap at cell boundaries is a partition, so with a

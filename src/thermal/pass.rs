@@ -569,12 +569,16 @@ fn field_pass(
 mod tests {
     use super::*;
 
-    fn coaster() -> Scenario {
-        crate::scenario::load(std::path::Path::new(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/scenarios/coaster-plan.yaml"
-        )))
-        .expect("demo loads")
+    /// The first pass of the coaster plan demo's first case from uniform fins: the fins'
+    /// capacities, their start states and the pass.
+    fn first_pass() -> (Vec<FinCapacity>, Vec<FinState>, PassHeat) {
+        let s = crate::scenario::shipped("scenarios/coaster-plan.yaml");
+        let tables = BrakeTables::build(&s).expect("tables");
+        let caps = fin_capacities(&s, &tables).expect("capacities");
+        let case = &s.cases[0];
+        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
+        let heat = run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps).expect("pass");
+        (caps, states, heat)
     }
 
     /// The shared unit deposit against each fin's own deposit ([`height_pass`]): on the five
@@ -583,12 +587,7 @@ mod tests {
     /// (rounding of the scaled sums; the rises are tens of kelvin), with one unit deposit made.
     #[test]
     fn shared_unit_deposit_is_each_fins_own_deposit() {
-        let s = coaster();
-        let tables = BrakeTables::build(&s).expect("tables");
-        let caps = fin_capacities(&s, &tables).expect("capacities");
-        let case = &s.cases[0];
-        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
-        let heat = run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps).expect("pass");
+        let (caps, states, heat) = first_pass();
         let mut units = Vec::new();
         let mut energies = Vec::new();
         for ((fin, state), cap) in heat.fins.iter().zip(&states).zip(&caps) {
@@ -628,12 +627,7 @@ mod tests {
     /// to the last bit, and makes no unit deposit.
     #[test]
     fn uneven_start_keeps_its_own_deposit() {
-        let s = coaster();
-        let tables = BrakeTables::build(&s).expect("tables");
-        let caps = fin_capacities(&s, &tables).expect("capacities");
-        let case = &s.cases[0];
-        let states = uniform_states(&s, case.fin_temp_c, DEFAULT_CELL_M);
-        let heat = run_pass_with(&s, &tables, case, &states, true, 5e-3, &caps).expect("pass");
+        let (caps, states, heat) = first_pass();
         let FinState::Height(mut p0) = states[0].clone() else {
             panic!("vehicle fin")
         };

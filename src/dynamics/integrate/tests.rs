@@ -6,11 +6,7 @@ use crate::dynamics::Quantity;
 use crate::physics::PhysicsError;
 use crate::scenario::{parse_str, Arrangement, ForceSource, MeasuredForce};
 
-/// A scenario shipped with the project, by its path from the repository root.
-fn shipped(path: &str) -> Scenario {
-    let path = format!("{}/{path}", env!("CARGO_MANIFEST_DIR"));
-    crate::scenario::load(std::path::Path::new(&path)).expect("shipped scenario loads")
-}
+use crate::scenario::shipped;
 
 /// A small brake run: one fin repeated `fins` times on the vehicle, three sections.
 fn scenario(fins: usize) -> Scenario {
@@ -273,11 +269,7 @@ fn reachable_speed_bounds_every_demo_run() {
 #[test]
 fn mirror_fins_run_as_every_pair_evaluated() {
     use crate::dynamics::model::{active_pairs, mirror_fins, PairLaw};
-    let path = std::path::Path::new(concat!(
-        env!("CARGO_MANIFEST_DIR"),
-        "/scenarios/tower-catch-brake.yaml"
-    ));
-    let s = crate::scenario::load(path).expect("demo loads");
+    let s = shipped("scenarios/tower-catch-brake.yaml");
     let tables = BrakeTables::build(&s).expect("tables");
     let full = &s.cases[0];
     assert_eq!(
