@@ -585,6 +585,8 @@ mod tests {
     /// car fins of the coaster plan demo (one height, material and loss distribution, five
     /// energies), every cell at the end and the hottest cell over the pass agree to 1e-12 K
     /// (rounding of the scaled sums; the rises are tens of kelvin), with one unit deposit made.
+    /// The shortcut rests on superposition for the linear heat equation with insulated faces
+    /// (Carslaw & Jaeger, Conduction of Heat in Solids, 1959; from memory).
     #[test]
     fn shared_unit_deposit_is_each_fins_own_deposit() {
         let (caps, states, heat) = first_pass();
