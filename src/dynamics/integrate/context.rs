@@ -39,6 +39,9 @@ pub(super) struct Ctx {
     pub law_group: Vec<usize>,
     /// Some pair has a measured force curve (whose speed range a run may leave).
     pub measured: bool,
+    /// No fin has a temperature field and no pair is a mirror copy: the right-hand side sums
+    /// the piece's runs of pairs that share a force per metre ([`Frozen::runs`]).
+    pub plain: bool,
 }
 
 /// A track fin's temperature field as the force law reads it: per cell the inverse of the
@@ -154,8 +157,10 @@ impl<'a> CaseSetup<'a> {
             resistance: case.resistance,
             air_density: scenario.track.air_density_kg_m3,
             n_fins,
+            plain: false,
         };
         ctx.mark_copies();
+        ctx.plain = !ctx.is_copy.iter().any(|&c| c) && ctx.fin_fields.iter().all(Option::is_none);
         let kinks = kinks(&ctx.pairs, &track);
         Self {
             ctx,
@@ -242,7 +247,19 @@ impl Ctx {
         // The force per metre of the last pair evaluated, reused by the next pairs of its law
         // group: the same number the pair's own evaluation gives.
         let mut per_m = 0.0;
-        for (&(p, a, b), &reuse) in fr.pairs.iter().zip(&fr.reuse) {
+        if self.plain {
+            // The same products and sums in the same order as the general loop below.
+            for &(fin, law, lo, hi) in &fr.runs {
+                let per_m = self.pairs[law].force_per_m_n(v, self.fin_temp(fin, y));
+                for &(_, a, b) in &fr.pairs[lo..hi] {
+                    let f = per_m * (a + b * x);
+                    brake -= f;
+                    dy[4 + fin] += f * v;
+                }
+            }
+        }
+        let general = if self.plain { &[][..] } else { &fr.pairs[..] };
+        for (&(p, a, b), &reuse) in general.iter().zip(&fr.reuse) {
             if self.is_copy[p] {
                 continue;
             }

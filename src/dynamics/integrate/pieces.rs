@@ -23,6 +23,10 @@ pub(super) struct Frozen {
     pub reuse: Vec<bool>,
     /// Mean curvature of the track under the vehicle on this piece, 1/m (constant on a piece).
     pub curvature_1_m: f64,
+    /// The entries of `pairs` as runs that share one force per metre: (fin, the pair whose law
+    /// gives it, first entry, end of the run). Filled only when the case is plain
+    /// ([`Ctx::plain`]: no temperature field and no mirror copy), empty otherwise.
+    pub runs: Vec<(usize, usize, usize, usize)>,
 }
 
 /// Sorted, de-duplicated kink positions of the front.
@@ -71,6 +75,7 @@ impl Frozen {
             overlap_sum: (0.0, 0.0),
             reuse: Vec::new(),
             curvature_1_m: 0.0,
+            runs: Vec::new(),
         }
     }
 
@@ -96,6 +101,15 @@ impl Frozen {
             ctx.law_group[p] == ctx.law_group[q] && !ctx.is_copy[p] && !ctx.is_copy[q]
         }));
         self.reuse.truncate(self.pairs.len());
+        self.runs.clear();
+        if ctx.plain {
+            for (k, (&(p, _, _), &reuse)) in self.pairs.iter().zip(&self.reuse).enumerate() {
+                match self.runs.last_mut() {
+                    Some(run) if reuse => run.3 = k + 1,
+                    _ => self.runs.push((ctx.pairs[p].spec.fin, p, k, k + 1)),
+                }
+            }
+        }
         self.gravity = track.frozen(mid, 1.0);
         self.curvature_1_m = self.gravity.mean_curvature_1_m();
         self.dir = dir;
